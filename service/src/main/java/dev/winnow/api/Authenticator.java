@@ -1,0 +1,96 @@
+package dev.winnow.api;
+
+import dev.winnow.store.TokenStore;
+import dev.winnow.store.TokenStore.TokenRecord;
+import io.javalin.http.Context;
+import io.javalin.http.HandlerType;
+
+import java.nio.charset.StandardCharsets;
+import java.security.MessageDigest;
+import java.security.NoSuchAlgorithmException;
+import java.security.SecureRandom;
+import java.util.Base64;
+import java.util.HexFormat;
+import java.util.List;
+
+/**
+ * Bearer-token authentication. Tokens are 32 random bytes; only their SHA-256 is stored. A presented token is
+ * hashed and compared with every stored hash in constant time ({@link MessageDigest#isEqual}), without early exit.
+ */
+public final class Authenticator {
+    private static final SecureRandom RANDOM = new SecureRandom();
+
+    private final TokenStore tokens;
+    private volatile List<TokenRecord> cache;
+
+    public Authenticator(TokenStore tokens) {
+        this.tokens = tokens;
+        refresh();
+    }
+
+    public void refresh() {
+        cache = tokens.all();
+    }
+
+    public static String newToken() {
+        byte[] bytes = new byte[32];
+        RANDOM.nextBytes(bytes);
+        return "wn_" + Base64.getUrlEncoder().withoutPadding().encodeToString(bytes);
+    }
+
+    public static String hash(String token) {
+        try {
+            return HexFormat.of().formatHex(MessageDigest.getInstance("SHA-256").digest(token.getBytes(StandardCharsets.UTF_8)));
+        } catch (NoSuchAlgorithmException e) {
+            throw new IllegalStateException("SHA-256 is missing from this JVM", e);
+        }
+    }
+
+    /** Before-handler: 401 without a known token, 403 when its scope is below what the route needs. */
+    public void check(Context ctx) {
+        if (ctx.path().equals("/health") || ctx.method() == HandlerType.OPTIONS) {
+            return;
+        }
+        String header = ctx.header("Authorization");
+        if (header == null || !header.regionMatches(true, 0, "Bearer ", 0, 7) || header.length() <= 7) {
+            ctx.header("WWW-Authenticate", "Bearer");
+            throw new ApiProblem(401, "Unauthorized", "Send 'Authorization: Bearer <token>'. Ask an admin for a token (POST /v1/tokens).");
+        }
+        Scope scope = scopeOf(header.substring(7).trim());
+        if (scope == null) {
+            ctx.header("WWW-Authenticate", "Bearer error=\"invalid_token\"");
+            throw new ApiProblem(401, "Unauthorized", "The bearer token is unknown or revoked; ask an admin for a valid token.");
+        }
+        Scope required = requiredScope(ctx);
+        if (!scope.covers(required)) {
+            throw new ApiProblem(403, "Forbidden", "This request needs a token with scope '" + required.wireName()
+                    + "'; yours has scope '" + scope.wireName() + "'.");
+        }
+    }
+
+    private Scope scopeOf(String token) {
+        byte[] presented = hash(token).getBytes(StandardCharsets.US_ASCII);
+        Scope found = null;
+        for (TokenRecord t : cache) {
+            if (MessageDigest.isEqual(presented, t.tokenHash().getBytes(StandardCharsets.US_ASCII))) {
+                found = Scope.fromWireName(t.scope());
+            }
+        }
+        return found;
+    }
+
+    static Scope requiredScope(Context ctx) {
+        String path = ctx.path();
+        if (path.startsWith("/v1/tokens")) {
+            return Scope.ADMIN;
+        }
+        HandlerType method = ctx.method();
+        if (method == HandlerType.GET || method == HandlerType.HEAD) {
+            return Scope.READ;
+        }
+        if (method == HandlerType.POST && path.equals("/v1/exposures")) {
+            return Scope.READ;
+        }
+        return Scope.WRITE;
+    }
+}

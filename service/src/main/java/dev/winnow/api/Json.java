@@ -1,0 +1,129 @@
+package dev.winnow.api;
+
+import com.fasterxml.jackson.core.JsonGenerator;
+import com.fasterxml.jackson.databind.DeserializationFeature;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.SerializerProvider;
+import com.fasterxml.jackson.databind.module.SimpleModule;
+import com.fasterxml.jackson.databind.ser.std.StdSerializer;
+import io.javalin.http.Context;
+
+import java.io.IOException;
+import java.time.LocalDate;
+import java.time.OffsetDateTime;
+
+/**
+ * JSON on the wire. Non-finite numbers are written as null (an undefined statistic, never NaN in JSON);
+ * dates as ISO 8601 text.
+ */
+public final class Json {
+    public static final ObjectMapper MAPPER = createMapper();
+
+    private Json() {
+    }
+
+    private static ObjectMapper createMapper() {
+        SimpleModule module = new SimpleModule("winnow-wire");
+        module.addSerializer(Double.class, new FiniteDoubleSerializer());
+        module.addSerializer(double.class, new FiniteDoubleSerializer());
+        module.addSerializer(double[].class, new FiniteDoubleArraySerializer());
+        module.addSerializer(LocalDate.class, new ToStringSerializer<>(LocalDate.class));
+        module.addSerializer(OffsetDateTime.class, new ToStringSerializer<>(OffsetDateTime.class));
+        return new ObjectMapper()
+                .registerModule(module)
+                .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
+                .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
+    }
+
+    public static void respond(Context ctx, int status, Object body) {
+        try {
+            ctx.status(status).contentType("application/json").result(MAPPER.writeValueAsBytes(body));
+        } catch (IOException e) {
+            throw new IllegalStateException("response could not be written as JSON", e);
+        }
+    }
+
+    public static void respond(Context ctx, Object body) {
+        respond(ctx, 200, body);
+    }
+
+    public static String write(Object value) {
+        try {
+            return MAPPER.writeValueAsString(value);
+        } catch (IOException e) {
+            throw new IllegalStateException("value could not be written as JSON", e);
+        }
+    }
+
+    /** Parses a request body as a JSON object, or answers 400 saying what is wrong with it. */
+    public static JsonNode readObject(Context ctx) {
+        byte[] body = ctx.bodyAsBytes();
+        if (body.length == 0) {
+            throw ApiProblem.badRequest("The request body is empty; send a JSON object.");
+        }
+        JsonNode node;
+        try {
+            node = MAPPER.readTree(body);
+        } catch (IOException e) {
+            throw ApiProblem.badRequest("The request body is not valid JSON: " + firstLine(e.getMessage()));
+        }
+        if (node == null || !node.isObject()) {
+            throw ApiProblem.badRequest("The request body must be a JSON object.");
+        }
+        return node;
+    }
+
+    private static String firstLine(String message) {
+        if (message == null) {
+            return "unreadable";
+        }
+        int nl = message.indexOf('\n');
+        return nl < 0 ? message : message.substring(0, nl);
+    }
+
+    private static final class FiniteDoubleSerializer extends StdSerializer<Double> {
+        FiniteDoubleSerializer() {
+            super(Double.class);
+        }
+
+        @Override
+        public void serialize(Double value, JsonGenerator gen, SerializerProvider provider) throws IOException {
+            if (value == null || !Double.isFinite(value)) {
+                gen.writeNull();
+            } else {
+                gen.writeNumber(value);
+            }
+        }
+    }
+
+    private static final class FiniteDoubleArraySerializer extends StdSerializer<double[]> {
+        FiniteDoubleArraySerializer() {
+            super(double[].class);
+        }
+
+        @Override
+        public void serialize(double[] values, JsonGenerator gen, SerializerProvider provider) throws IOException {
+            gen.writeStartArray(values, values.length);
+            for (double v : values) {
+                if (Double.isFinite(v)) {
+                    gen.writeNumber(v);
+                } else {
+                    gen.writeNull();
+                }
+            }
+            gen.writeEndArray();
+        }
+    }
+
+    private static final class ToStringSerializer<T> extends StdSerializer<T> {
+        ToStringSerializer(Class<T> type) {
+            super(type);
+        }
+
+        @Override
+        public void serialize(T value, JsonGenerator gen, SerializerProvider provider) throws IOException {
+            gen.writeString(value.toString());
+        }
+    }
+}

@@ -1,0 +1,133 @@
+package dev.winnow.api;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import io.javalin.http.Context;
+
+import java.time.LocalDate;
+import java.time.format.DateTimeParseException;
+import java.util.ArrayList;
+import java.util.Iterator;
+import java.util.List;
+import java.util.Set;
+import java.util.TreeSet;
+
+/** Reading and checking request parameters in one place, each failure a 400 that says what to send instead. */
+public final class Requests {
+    private Requests() {
+    }
+
+    public static void allowOnly(JsonNode body, Set<String> allowed) {
+        List<String> unknown = new ArrayList<>();
+        Iterator<String> names = body.fieldNames();
+        while (names.hasNext()) {
+            String n = names.next();
+            if (!allowed.contains(n)) {
+                unknown.add(n);
+            }
+        }
+        if (!unknown.isEmpty()) {
+            throw ApiProblem.badRequest("Unknown field(s) " + unknown + "; allowed fields are " + new TreeSet<>(allowed) + ".");
+        }
+    }
+
+    public static String requiredText(JsonNode body, String field) {
+        JsonNode node = body.get(field);
+        if (node == null || node.isNull()) {
+            throw ApiProblem.badRequest("Field '" + field + "' is required.");
+        }
+        if (!node.isTextual() || node.asText().isBlank()) {
+            throw ApiProblem.badRequest("Field '" + field + "' must be a non-empty string.");
+        }
+        return node.asText();
+    }
+
+    public static LocalDate dateParam(Context ctx, String name) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return null;
+        }
+        try {
+            return LocalDate.parse(text.trim());
+        } catch (DateTimeParseException e) {
+            throw ApiProblem.badRequest("Query parameter '" + name + "' must be a date yyyy-mm-dd, got '" + text + "'.");
+        }
+    }
+
+    public static Integer intParam(Context ctx, String name, int min, int max) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return null;
+        }
+        int value;
+        try {
+            value = Integer.parseInt(text.trim());
+        } catch (NumberFormatException e) {
+            throw ApiProblem.badRequest("Query parameter '" + name + "' must be a whole number from " + min + " to " + max + ", got '" + text + "'.");
+        }
+        if (value < min || value > max) {
+            throw ApiProblem.badRequest("Query parameter '" + name + "' must be from " + min + " to " + max + ", got " + value + ".");
+        }
+        return value;
+    }
+
+    public static Double doubleParam(Context ctx, String name) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return null;
+        }
+        try {
+            double v = Double.parseDouble(text.trim());
+            if (Double.isFinite(v)) {
+                return v;
+            }
+        } catch (NumberFormatException e) {
+            // fall through to the problem below
+        }
+        throw ApiProblem.badRequest("Query parameter '" + name + "' must be a finite number, got '" + text + "'.");
+    }
+
+    public static boolean booleanParam(Context ctx, String name) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return false;
+        }
+        return switch (text.trim()) {
+            case "true" -> true;
+            case "false" -> false;
+            default -> throw ApiProblem.badRequest("Query parameter '" + name + "' must be true or false, got '" + text + "'.");
+        };
+    }
+
+    /** One of the allowed words, or the default when absent. */
+    public static String choiceParam(Context ctx, String name, List<String> allowed, String defaultValue) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return defaultValue;
+        }
+        if (!allowed.contains(text.trim())) {
+            throw ApiProblem.badRequest("Query parameter '" + name + "' must be one of " + allowed + ", got '" + text + "'.");
+        }
+        return text.trim();
+    }
+
+    /** A comma-separated list, empty items removed; null when absent. */
+    public static List<String> listParam(Context ctx, String name) {
+        String text = ctx.queryParam(name);
+        if (text == null || text.isBlank()) {
+            return null;
+        }
+        List<String> items = new ArrayList<>();
+        for (String part : text.split(",")) {
+            if (!part.isBlank()) {
+                items.add(part.trim());
+            }
+        }
+        return items;
+    }
+
+    public static void checkRange(LocalDate from, LocalDate to) {
+        if (from != null && to != null && from.isAfter(to)) {
+            throw ApiProblem.badRequest("'from' (" + from + ") is after 'to' (" + to + "); swap them.");
+        }
+    }
+}

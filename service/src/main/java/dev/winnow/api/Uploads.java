@@ -1,0 +1,46 @@
+package dev.winnow.api;
+
+import dev.winnow.ingest.UploadSpool;
+import io.javalin.http.Context;
+
+import java.io.IOException;
+import java.io.UncheckedIOException;
+import java.util.List;
+import java.util.Locale;
+
+/** Checks an upload request's headers and spools its body to disk. */
+final class Uploads {
+    private Uploads() {
+    }
+
+    record Received(String spoolPath, boolean gzip, String mode) {
+    }
+
+    static Received receive(Context ctx, UploadSpool spool) {
+        String contentType = ctx.contentType();
+        if (contentType == null || !contentType.toLowerCase(Locale.ROOT).startsWith("text/csv")) {
+            throw new ApiProblem(415, "Unsupported media type", "Send the upload as 'Content-Type: text/csv' (RFC 4180, UTF-8, header row); got "
+                    + (contentType == null ? "no Content-Type" : "'" + contentType + "'") + ".");
+        }
+        String encoding = ctx.header("Content-Encoding");
+        boolean gzip = false;
+        if (encoding != null && !encoding.isBlank() && !encoding.equalsIgnoreCase("identity")) {
+            if (!encoding.trim().equalsIgnoreCase("gzip")) {
+                throw new ApiProblem(415, "Unsupported media type", "Content-Encoding '" + encoding + "' is not supported; send gzip or no encoding.");
+            }
+            gzip = true;
+        }
+        String mode = Requests.choiceParam(ctx, "mode", List.of("append", "revise"), "append");
+        UploadSpool.Spooled spooled;
+        try {
+            spooled = spool.write(ctx.bodyInputStream());
+        } catch (IOException e) {
+            throw new UncheckedIOException("could not spool the upload", e);
+        }
+        if (spooled.size() == 0) {
+            spool.delete(spooled.relativePath());
+            throw ApiProblem.badRequest("The upload body is empty; send a CSV with a header row and at least one data row.");
+        }
+        return new Received(spooled.relativePath(), gzip, mode);
+    }
+}

@@ -1,0 +1,46 @@
+package dev.winnow.app;
+
+import java.nio.file.Path;
+import java.util.Map;
+
+/**
+ * Service configuration, read from the environment in one place.
+ *
+ * @param port       WINNOW_PORT (default 8080; 0 picks a free port)
+ * @param bind       WINNOW_BIND (default 127.0.0.1)
+ * @param dataDir    WINNOW_DATA_DIR (default ./data): the H2 file and spooled uploads
+ * @param dbUrl      WINNOW_DB_URL (default an H2 file under the data dir)
+ * @param adminToken WINNOW_ADMIN_TOKEN: bootstrap admin token, or null
+ */
+public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken) {
+
+    public static Config fromEnvironment(Map<String, String> env) {
+        Path dataDir = Path.of(env.getOrDefault("WINNOW_DATA_DIR", "data")).toAbsolutePath();
+        String port = env.getOrDefault("WINNOW_PORT", "8080");
+        int parsedPort;
+        try {
+            parsedPort = Integer.parseInt(port.trim());
+        } catch (NumberFormatException e) {
+            throw new IllegalArgumentException("WINNOW_PORT must be a whole number from 0 to 65535, got '" + port + "'");
+        }
+        if (parsedPort < 0 || parsedPort > 65535) {
+            throw new IllegalArgumentException("WINNOW_PORT must be a whole number from 0 to 65535, got " + parsedPort);
+        }
+        String dbUrl = env.get("WINNOW_DB_URL");
+        if (dbUrl == null || dbUrl.isBlank()) {
+            dbUrl = defaultH2Url(dataDir);
+        }
+        String token = env.get("WINNOW_ADMIN_TOKEN");
+        return new Config(parsedPort, env.getOrDefault("WINNOW_BIND", "127.0.0.1"), dataDir, dbUrl,
+                token == null || token.isBlank() ? null : token);
+    }
+
+    /** H2 file store; file locking by the file system so a second process gets a clear error instead of corrupting it. */
+    public static String defaultH2Url(Path dataDir) {
+        return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS";
+    }
+
+    public Path spoolDir() {
+        return dataDir.resolve("spool");
+    }
+}

@@ -1,0 +1,21 @@
+package dev.winnow.app;
+
+import dev.winnow.ingest.JobHandler;
+import dev.winnow.ingest.JobQueue;
+import dev.winnow.ingest.UploadSpool;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.PanelStore;
+
+import java.util.HashMap;
+import java.util.Map;
+
+/** The job handlers by kind. */
+final class JobHandlers {
+    private JobHandlers() {
+    }
+
+    static Map<String, JobHandler> create(PanelStore panels, FactorStore factors, UploadSpool spool, JobQueue queue) {
+        Map<String, JobHandler> handlers = new HashMap<>();
+        return handlers;
+    }
+}

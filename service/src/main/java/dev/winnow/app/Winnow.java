@@ -1,0 +1,110 @@
+package dev.winnow.app;
+
+import dev.winnow.api.ApiServer;
+import dev.winnow.api.Authenticator;
+import dev.winnow.ingest.JobHandler;
+import dev.winnow.ingest.JobQueue;
+import dev.winnow.ingest.JobWorker;
+import dev.winnow.ingest.UploadSpool;
+import dev.winnow.store.Database;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.JobStore;
+import dev.winnow.store.PanelStore;
+import dev.winnow.store.TokenStore;
+import io.javalin.Javalin;
+import org.jdbi.v3.core.Jdbi;
+import org.slf4j.Logger;
+import org.slf4j.LoggerFactory;
+
+import java.io.IOException;
+import java.nio.file.Files;
+import java.util.Map;
+
+/** One running service: store, recovery, job worker and HTTP server, wired together. */
+public final class Winnow implements AutoCloseable {
+    private static final Logger LOG = LoggerFactory.getLogger(Winnow.class);
+
+    private final Config config;
+    private final Database database;
+    private final Jdbi jdbi;
+    private final JobWorker worker;
+    private final Javalin http;
+    private final JobQueue queue;
+    private final String generatedAdminToken;
+
+    private Winnow(Config config) throws IOException {
+        this.config = config;
+        Files.createDirectories(config.dataDir());
+        this.database = Database.open(config.dbUrl());
+        this.jdbi = database.jdbi();
+        TokenStore tokens = new TokenStore(jdbi);
+        JobStore jobs = new JobStore(jdbi);
+        PanelStore panels = new PanelStore(jdbi);
+        FactorStore factors = new FactorStore(jdbi);
+        UploadSpool spool = new UploadSpool(config.dataDir());
+
+        int discarded = panels.discardAllStaging();
+        int requeued = jobs.requeueInterrupted();
+        if (discarded + requeued > 0) {
+            LOG.info("recovered from an interrupted run: {} staged upload(s) discarded, {} job(s) queued again", discarded, requeued);
+        }
+        this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
+
+        this.queue = new JobQueue(jobs);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, spool, queue);
+        this.worker = new JobWorker(jobs, handlers);
+        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool), config.bind(), config.port());
+    }
+
+    public static Winnow start(Config config) throws IOException {
+        Winnow w = new Winnow(config);
+        w.worker.start(w.queue);
+        w.http.start();
+        return w;
+    }
+
+    /**
+     * With WINNOW_ADMIN_TOKEN set, that token is the admin token named "admin". Otherwise, when no admin exists,
+     * a new one is made; only its hash is stored and the token itself is returned to be printed once.
+     */
+    private static String bootstrapAdmin(TokenStore tokens, String configured) {
+        if (configured != null) {
+            String hash = Authenticator.hash(configured);
+            if (tokens.all().stream().noneMatch(t -> t.tokenHash().equals(hash))) {
+                tokens.delete("admin");
+                tokens.insert("admin", "admin", hash);
+            }
+            return null;
+        }
+        if (tokens.anyWithScope("admin")) {
+            return null;
+        }
+        String token = Authenticator.newToken();
+        tokens.insert("admin", "admin", Authenticator.hash(token));
+        return token;
+    }
+
+    public int port() {
+        return http.port();
+    }
+
+    public Config config() {
+        return config;
+    }
+
+    public Jdbi jdbi() {
+        return jdbi;
+    }
+
+    /** The admin token created at this start, or null when one was configured or already existed. */
+    public String generatedAdminToken() {
+        return generatedAdminToken;
+    }
+
+    @Override
+    public void close() {
+        http.stop();
+        worker.close();
+        database.close();
+    }
+}

@@ -1,0 +1,56 @@
+package dev.winnow.store;
+
+import org.jdbi.v3.core.Jdbi;
+
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
+import java.util.List;
+import java.util.Optional;
+
+/** API tokens: only SHA-256 hashes are stored. */
+public final class TokenStore {
+    private final Jdbi jdbi;
+
+    public TokenStore(Jdbi jdbi) {
+        this.jdbi = jdbi;
+    }
+
+    public record TokenRecord(String name, String scope, String tokenHash, OffsetDateTime createdAt) {
+    }
+
+    public List<TokenRecord> all() {
+        return jdbi.withHandle(h -> h.createQuery("SELECT name, scope, token_hash, created_at FROM api_tokens ORDER BY name")
+                .map((rs, ctx) -> new TokenRecord(rs.getString(1), rs.getString(2), rs.getString(3),
+                        rs.getObject(4, OffsetDateTime.class)))
+                .list());
+    }
+
+    public Optional<TokenRecord> find(String name) {
+        return all().stream().filter(t -> t.name().equals(name)).findFirst();
+    }
+
+    /** Inserts a token; false when the name is taken. */
+    public boolean insert(String name, String scope, String tokenHash) {
+        return jdbi.inTransaction(h -> {
+            boolean exists = h.createQuery("SELECT COUNT(*) FROM api_tokens WHERE name = :name")
+                    .bind("name", name).mapTo(Integer.class).one() > 0;
+            if (exists) {
+                return false;
+            }
+            h.createUpdate("INSERT INTO api_tokens (name, scope, token_hash, created_at) VALUES (:name, :scope, :hash, :now)")
+                    .bind("name", name).bind("scope", scope).bind("hash", tokenHash)
+                    .bind("now", OffsetDateTime.now(ZoneOffset.UTC))
+                    .execute();
+            return true;
+        });
+    }
+
+    public boolean delete(String name) {
+        return jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0;
+    }
+
+    public boolean anyWithScope(String scope) {
+        return jdbi.withHandle(h -> h.createQuery("SELECT COUNT(*) FROM api_tokens WHERE scope = :scope")
+                .bind("scope", scope).mapTo(Integer.class).one()) > 0;
+    }
+}
