@@ -1,0 +1,248 @@
+package dev.winnow.construct;
+
+import java.time.LocalDate;
+import java.util.Map;
+import java.util.StringJoiner;
+
+/**
+ * How to build one factor. Optional fields are null when not given, so that {@link DefinitionValidator} can tell
+ * a field given to a method it does not apply to; the {@code effective...} accessors supply the defaults.
+ *
+ * @param method          how the series is obtained; EXTERNAL series are uploaded, not built
+ * @param panel           panel name (not for EXTERNAL)
+ * @param signal          numeric column to sort on (SORT and SIZE_SORT)
+ * @param direction       which end is long; default HIGH_MINUS_LOW
+ * @param buckets         number of sort buckets, 2..20; default 5 (SORT only)
+ * @param weighting       weights inside a portfolio; default EQUAL for SORT, CAP otherwise
+ * @param lag             formation at rebalance point R uses the rows at R - (lag - 1); at least 1, default 1
+ * @param rebalance       rebalance calendar; default EVERY_PERIOD
+ * @param rebalanceMonth  month 1..12 of the yearly rebalance (ANNUAL only, required there)
+ * @param output          SIGNAL (default) or SIZE leg of the 2x3 sort (SIZE_SORT only)
+ * @param riskFree        name of the factor subtracted from the market return (MARKET only)
+ * @param universe        eligibility restrictions; default none
+ * @param breakpoints     compute breakpoints on the eligible securities whose label matches (SORT, SIZE_SORT)
+ * @param costBps         one-way trading cost in basis points charged on turnover; default 0
+ * @param theme           free text
+ * @param rationale       free text
+ * @param foundOn         when the idea was found, if known
+ */
+public record FactorDefinition(
+        Method method,
+        String panel,
+        String signal,
+        Direction direction,
+        Integer buckets,
+        Weighting weighting,
+        Integer lag,
+        Rebalance rebalance,
+        Integer rebalanceMonth,
+        Output output,
+        String riskFree,
+        Universe universe,
+        LabelEquals breakpoints,
+        Double costBps,
+        String theme,
+        String rationale,
+        LocalDate foundOn) {
+
+    public enum Method {
+        SORT,
+        SIZE_SORT,
+        MARKET,
+        EXTERNAL
+    }
+
+    public enum Direction {
+        HIGH_MINUS_LOW,
+        LOW_MINUS_HIGH
+    }
+
+    public enum Weighting {
+        EQUAL,
+        CAP
+    }
+
+    public enum Rebalance {
+        EVERY_PERIOD,
+        MONTHLY,
+        QUARTERLY,
+        ANNUAL
+    }
+
+    public enum Output {
+        SIGNAL,
+        SIZE
+    }
+
+    public static final int DEFAULT_BUCKETS = 5;
+
+    public Direction effectiveDirection() {
+        return direction != null ? direction : Direction.HIGH_MINUS_LOW;
+    }
+
+    public int effectiveBuckets() {
+        return buckets != null ? buckets : DEFAULT_BUCKETS;
+    }
+
+    public Weighting effectiveWeighting() {
+        if (weighting != null) {
+            return weighting;
+        }
+        return method == Method.SORT ? Weighting.EQUAL : Weighting.CAP;
+    }
+
+    public int effectiveLag() {
+        return lag != null ? lag : 1;
+    }
+
+    public Rebalance effectiveRebalance() {
+        return rebalance != null ? rebalance : Rebalance.EVERY_PERIOD;
+    }
+
+    public Output effectiveOutput() {
+        return output != null ? output : Output.SIGNAL;
+    }
+
+    public Universe effectiveUniverse() {
+        return universe != null ? universe : Universe.ALL;
+    }
+
+    public double effectiveCostBps() {
+        return costBps != null ? costBps : 0.0;
+    }
+
+    /**
+     * Canonical text of every field that affects the built series, with defaults filled in: two definitions with
+     * equal keys build identical series. Free text (theme, rationale, found-on date) is left out.
+     */
+    public String constructionKey() {
+        StringJoiner key = new StringJoiner(";");
+        key.add("method=" + method).add("panel=" + panel).add("signal=" + signal)
+                .add("direction=" + effectiveDirection()).add("buckets=" + effectiveBuckets())
+                .add("weighting=" + effectiveWeighting()).add("lag=" + effectiveLag())
+                .add("rebalance=" + effectiveRebalance()).add("rebalance_month=" + rebalanceMonth)
+                .add("output=" + effectiveOutput()).add("risk_free=" + riskFree)
+                .add("cost_bps=" + Double.toHexString(effectiveCostBps()));
+        Universe u = effectiveUniverse();
+        key.add("min_market_cap=" + (u.minMarketCap() == null ? "null" : Double.toHexString(u.minMarketCap())));
+        for (Map.Entry<String, LabelFilter> f : u.labelFilters().entrySet()) {
+            key.add("filter=" + f.getKey() + ":" + f.getValue().mode() + ":" + String.join("|", f.getValue().values()));
+        }
+        key.add("size_half=" + u.sizeHalf()).add("segment=" + u.segment()).add("breakpoints=" + breakpoints);
+        return key.toString();
+    }
+
+    public static Builder builder(Method method) {
+        return new Builder(method);
+    }
+
+    /** Mutable helper to assemble a definition field by field; unset fields stay null (= default). */
+    public static final class Builder {
+        private final Method method;
+        private String panel;
+        private String signal;
+        private Direction direction;
+        private Integer buckets;
+        private Weighting weighting;
+        private Integer lag;
+        private Rebalance rebalance;
+        private Integer rebalanceMonth;
+        private Output output;
+        private String riskFree;
+        private Universe universe;
+        private LabelEquals breakpoints;
+        private Double costBps;
+        private String theme;
+        private String rationale;
+        private LocalDate foundOn;
+
+        private Builder(Method method) {
+            this.method = method;
+        }
+
+        public Builder panel(String value) {
+            panel = value;
+            return this;
+        }
+
+        public Builder signal(String value) {
+            signal = value;
+            return this;
+        }
+
+        public Builder direction(Direction value) {
+            direction = value;
+            return this;
+        }
+
+        public Builder buckets(Integer value) {
+            buckets = value;
+            return this;
+        }
+
+        public Builder weighting(Weighting value) {
+            weighting = value;
+            return this;
+        }
+
+        public Builder lag(Integer value) {
+            lag = value;
+            return this;
+        }
+
+        public Builder rebalance(Rebalance value) {
+            rebalance = value;
+            return this;
+        }
+
+        public Builder rebalanceMonth(Integer value) {
+            rebalanceMonth = value;
+            return this;
+        }
+
+        public Builder output(Output value) {
+            output = value;
+            return this;
+        }
+
+        public Builder riskFree(String value) {
+            riskFree = value;
+            return this;
+        }
+
+        public Builder universe(Universe value) {
+            universe = value;
+            return this;
+        }
+
+        public Builder breakpoints(LabelEquals value) {
+            breakpoints = value;
+            return this;
+        }
+
+        public Builder costBps(Double value) {
+            costBps = value;
+            return this;
+        }
+
+        public Builder theme(String value) {
+            theme = value;
+            return this;
+        }
+
+        public Builder rationale(String value) {
+            rationale = value;
+            return this;
+        }
+
+        public Builder foundOn(LocalDate value) {
+            foundOn = value;
+            return this;
+        }
+
+        public FactorDefinition build() {
+            return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance,
+                    rebalanceMonth, output, riskFree, universe, breakpoints, costBps, theme, rationale, foundOn);
+        }
+    }
+}

@@ -1,0 +1,170 @@
+package dev.winnow.construct;
+
+import dev.winnow.stats.ReturnSeries;
+import java.time.LocalDate;
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.List;
+import java.util.Map;
+import java.util.Objects;
+
+/**
+ * Builds a factor's return series from a panel, or continues a previous build from its {@link EngineState}.
+ *
+ * <p>Construction rules: the panel's sorted distinct dates are the period grid; a formation at rebalance point R
+ * (see {@link RebalanceCalendar}) uses the rows at R - (lag - 1) and holds for periods R+1 through the next
+ * rebalance point, members' values drifting by (1 + r) each period; a member without a return leaves for the rest
+ * of its holding period. A portfolio's period return is sum(v_i r_i) / sum(v_i) over members with a return, values
+ * before the period's drift. The net return of a holding's first period is the spread minus
+ * costBps / 10,000 x the formation's turnover; if that first period has no return, that cost is not charged.
+ *
+ * <p>The panel is read in date order, holding only the last {@code lag} cross-sections. Appending dates and
+ * resuming gives bit-for-bit the series of a build over all dates at once.
+ */
+public final class FactorEngine {
+    private FactorEngine() {
+    }
+
+    /**
+     * @param def           a buildable definition (not EXTERNAL); checked by {@link DefinitionValidator}
+     * @param panel         the panel; when resuming, its grid must start with the grid the state was built on
+     * @param riskFree      the series named by {@code def.riskFree()}, or null when the definition names none
+     * @param resume        the end state of an earlier build of the same definition, or null to build from scratch
+     * @return the observations and formations after the state's last processed date, and the new end state
+     */
+    public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume) {
+        DefinitionValidator.requireBuildable(def);
+        Objects.requireNonNull(panel, "panel");
+        if (def.riskFree() != null && riskFree == null) {
+            throw new IllegalArgumentException("definition subtracts risk-free factor '" + def.riskFree()
+                    + "': pass its return series");
+        }
+        if (def.riskFree() == null && riskFree != null) {
+            throw new IllegalArgumentException("a risk-free series was passed but the definition names no risk_free factor");
+        }
+        List<LocalDate> dates = panel.dates();
+        if (resume != null) {
+            checkResumable(def, dates, resume);
+        }
+        return new Run(def, panel, dates, riskFree, resume).execute();
+    }
+
+    private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
+        if (!state.definitionKey().equals(def.constructionKey())) {
+            throw new IllegalArgumentException("resume state was built for another definition; rebuild from scratch");
+        }
+        int n = state.processedDates();
+        if (n > dates.size() || (n > 0 && !dates.get(n - 1).equals(state.lastProcessedDate()))) {
+            throw new IllegalArgumentException("resume state ends at grid date #" + n + " = " + state.lastProcessedDate()
+                    + ", which the panel's dates no longer match; rebuild from scratch");
+        }
+    }
+
+    /** One pass over the grid from the start index to the end. */
+    private static final class Run {
+        private final PanelSource panel;
+        private final List<LocalDate> dates;
+        private final Map<LocalDate, Double> riskFree;
+        private final PortfolioRule rule;
+        private final RebalanceCalendar calendar;
+        private final int lag;
+        private final double costRate;
+        private final String key;
+        private final int start;
+        private Holding[] book;
+        private final List<FactorObservation> observations = new ArrayList<>();
+        private final List<Formation> formations = new ArrayList<>();
+        private int withoutReturn;
+
+        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree, EngineState resume) {
+            this.panel = panel;
+            this.dates = dates;
+            this.riskFree = riskFree == null ? null : byDate(riskFree);
+            this.rule = PortfolioRule.of(def);
+            this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
+            this.lag = def.effectiveLag();
+            this.costRate = def.effectiveCostBps() / 10_000.0;
+            this.key = def.constructionKey();
+            this.start = resume == null ? 0 : resume.processedDates();
+            this.book = resume == null ? null : resume.holdings();
+        }
+
+        BuildResult execute() {
+            LagWindow window = new LagWindow(lag);
+            for (int i = Math.max(0, start - lag); i < start; i++) {
+                window.put(i, read(i));
+            }
+            for (int t = start; t < dates.size(); t++) {
+                CrossSection rows = read(t);
+                double cost = 0.0;
+                if (t >= 1 && t - lag >= 0 && calendar.isRebalancePoint(dates.get(t - 1), dates.get(t))) {
+                    Holding[] next = rule.form(window.get(t - lag));
+                    double turnover = LegWeights.turnover(rule, next, book);
+                    formations.add(new Formation(dates.get(t - 1), turnover));
+                    cost = costRate * turnover;
+                    book = next;
+                }
+                if (book != null) {
+                    hold(rows, cost);
+                }
+                window.put(t, rows);
+            }
+            int processed = dates.size();
+            EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
+            return new BuildResult(observations, formations, end, withoutReturn);
+        }
+
+        private CrossSection read(int index) {
+            CrossSection rows = panel.crossSection(index);
+            if (!rows.date().equals(dates.get(index))) {
+                throw new IllegalArgumentException("panel returned the rows of " + rows.date() + " for grid date #"
+                        + index + " = " + dates.get(index));
+            }
+            return rows;
+        }
+
+        /** One period of the current holding: returns, drift, and the observation if the factor has a return. */
+        private void hold(CrossSection rows, double cost) {
+            double[] subReturns = new double[book.length];
+            for (int s = 0; s < book.length; s++) {
+                subReturns[s] = book[s].holdThrough(rows);
+            }
+            double longLeg = legMean(subReturns, rule.longLeg());
+            double shortLeg = legMean(subReturns, rule.shortLeg());
+            double spread;
+            if (rule.shortLeg().length > 0) {
+                spread = longLeg - shortLeg;
+            } else if (riskFree != null) {
+                Double rf = riskFree.get(rows.date());
+                spread = rf == null ? Double.NaN : longLeg - rf;
+            } else {
+                spread = longLeg;
+            }
+            if (Double.isNaN(spread)) {
+                withoutReturn++;
+            } else {
+                observations.add(new FactorObservation(rows.date(), spread, longLeg, shortLeg, spread - cost));
+            }
+        }
+
+        /** Equal-coefficient mean of the leg's sub-portfolio returns; NaN if any is missing or the leg is empty. */
+        private static double legMean(double[] subReturns, int[] leg) {
+            if (leg.length == 0) {
+                return Double.NaN;
+            }
+            double sum = 0.0;
+            for (int s : leg) {
+                sum += subReturns[s];
+            }
+            return sum / leg.length;
+        }
+
+        private static Map<LocalDate, Double> byDate(ReturnSeries series) {
+            Map<LocalDate, Double> map = new HashMap<>();
+            for (int i = 0; i < series.size(); i++) {
+                map.put(series.date(i), series.value(i));
+            }
+            return map;
+        }
+    }
+}

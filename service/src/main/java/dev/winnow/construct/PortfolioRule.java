@@ -1,0 +1,32 @@
+package dev.winnow.construct;
+
+import dev.winnow.construct.FactorDefinition.Weighting;
+
+/**
+ * A method's formation rule: the sub-portfolios formed from a cross-section and how they combine into the long and
+ * short legs (each leg is the equal-coefficient mean of its sub-portfolios).
+ */
+interface PortfolioRule {
+
+    /** The sub-portfolios formed on these rows, always the same number and order; empty ones are allowed. */
+    Holding[] form(CrossSection rows);
+
+    /** Indices into {@link #form}'s result that make up the long leg. */
+    int[] longLeg();
+
+    /** Indices that make up the short leg; empty for a long-only factor. */
+    int[] shortLeg();
+
+    static PortfolioRule of(FactorDefinition def) {
+        return switch (def.method()) {
+            case SORT -> new BucketSortRule(def);
+            case SIZE_SORT -> new TwoByThreeRule(def);
+            case MARKET -> new MarketRule(def);
+            case EXTERNAL -> throw new IllegalArgumentException("method external has no formation rule");
+        };
+    }
+
+    static boolean capWeighted(FactorDefinition def) {
+        return def.effectiveWeighting() == Weighting.CAP;
+    }
+}
