@@ -1,0 +1,119 @@
+package dev.winnow.stats;
+
+import java.util.Arrays;
+
+/** Average ranks (ties share the mean of the ranks they span) without boxing, for Spearman's rank correlation. */
+final class Ranks {
+
+    private Ranks() {
+    }
+
+    /** 1-based average ranks of x[0..n): a value whose equals occupy sorted positions k..end-1 gets (k+1+end)/2. */
+    static double[] averageRanks(double[] x, int n) {
+        double[] values = n == x.length ? x : Arrays.copyOf(x, n);
+        int[] order = sortedOrder(values);
+        double[] ranks = new double[n];
+        int k = 0;
+        while (k < n) {
+            int end = k + 1;
+            while (end < n && values[order[end]] == values[order[k]]) {
+                end++;
+            }
+            double averageRank = (k + 1 + end) / 2.0;
+            for (int j = k; j < end; j++) {
+                ranks[order[j]] = averageRank;
+            }
+            k = end;
+        }
+        return ranks;
+    }
+
+    /**
+     * Indices of x sorted by value, equal values (by ==, so -0.0 ties with 0.0) in index order: a stable argsort
+     * without boxing. Each index is packed into the low bits of an order-preserving long image of its value and the
+     * longs are sorted; values that differ only in those low bits come out in index order, so each run of equal high
+     * bits is then put right by exact comparison (insertion sort for short runs, a comparator sort for long ones).
+     */
+    static int[] sortedOrder(double[] x) {
+        int n = x.length;
+        int indexBits = Math.max(1, 32 - Integer.numberOfLeadingZeros(Math.max(n - 1, 1)));
+        long indexMask = (1L << indexBits) - 1;
+        long[] keys = new long[n];
+        for (int i = 0; i < n; i++) {
+            keys[i] = (orderedBits(x[i]) & ~indexMask) | i;
+        }
+        Arrays.sort(keys);
+        int[] order = new int[n];
+        for (int k = 0; k < n; k++) {
+            order[k] = (int) (keys[k] & indexMask);
+        }
+        int start = 0;
+        for (int k = 1; k <= n; k++) {
+            if (k == n || (keys[k] & ~indexMask) != (keys[start] & ~indexMask)) {
+                sortRunByValue(order, x, start, k);
+                start = k;
+            }
+        }
+        return order;
+    }
+
+    /** A long whose signed order is the numeric order of the (finite) double. */
+    private static long orderedBits(double value) {
+        long bits = Double.doubleToRawLongBits(value);
+        return bits ^ ((bits >> 63) & Long.MAX_VALUE);
+    }
+
+    /** Stable sort of order[from..to) by x value; the run is in index order on entry. */
+    private static void sortRunByValue(int[] order, double[] x, int from, int to) {
+        if (to - from <= 32) {
+            for (int k = from + 1; k < to; k++) {
+                int index = order[k];
+                int j = k;
+                while (j > from && x[order[j - 1]] > x[index]) {
+                    order[j] = order[j - 1];
+                    j--;
+                }
+                order[j] = index;
+            }
+            return;
+        }
+        Integer[] run = new Integer[to - from];
+        for (int k = from; k < to; k++) {
+            run[k - from] = order[k];
+        }
+        Arrays.sort(run, (a, b) -> x[a] < x[b] ? -1 : (x[a] > x[b] ? 1 : Integer.compare(a, b)));
+        for (int k = from; k < to; k++) {
+            order[k] = run[k - from];
+        }
+    }
+
+    /**
+     * Average ranks of the observations of one series that the other series also has. {@code order} sorts the own
+     * {@code values}; observation k sits at union position {@code position[k]}; it is kept when
+     * {@code otherDense[position[k]]} is not NaN. Ranks go to {@code rankDense} at the kept union positions;
+     * returns how many were kept.
+     */
+    static int ranksAmongCommon(int[] order, double[] values, int[] position, double[] otherDense, double[] rankDense) {
+        int assigned = 0;
+        int k = 0;
+        while (k < order.length) {
+            double value = values[order[k]];
+            int end = k;
+            int kept = 0;
+            while (end < order.length && values[order[end]] == value) {
+                kept += Double.isNaN(otherDense[position[order[end]]]) ? 0 : 1;
+                end++;
+            }
+            double averageRank = assigned + (kept + 1) / 2.0;
+            for (int j = k; j < end; j++) {
+                int u = position[order[j]];
+                if (!Double.isNaN(otherDense[u])) {
+                    rankDense[u] = averageRank;
+                }
+            }
+            assigned += kept;
+            k = end;
+        }
+        return assigned;
+    }
+}
