@@ -33,6 +33,7 @@ public final class ApiServer {
         TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
+        FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -52,6 +53,14 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/uploads", panels::upload);
             config.routes.get("/v1/panels", panels::list);
             config.routes.get("/v1/panels/{panel}", panels::get);
+
+            config.routes.put("/v1/factors/{factor}", factors::define);
+            config.routes.get("/v1/factors", factors::list);
+            config.routes.get("/v1/factors/{factor}", factors::get);
+            config.routes.delete("/v1/factors/{factor}", factors::retire);
+            config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
+            config.routes.get("/v1/factors/{factor}/returns", factors::returns);
+            config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),

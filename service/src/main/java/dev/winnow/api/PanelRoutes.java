@@ -67,7 +67,6 @@ final class PanelRoutes {
         columns.add(Map.of("name", "date", "type", "date"));
         columns.add(Map.of("name", "security", "type", "label"));
         columns.add(Map.of("name", "return", "type", "number"));
-        columns.add(Map.of("name", "market_cap", "type", "number"));
         extraColumns.forEach((name, type) -> columns.add(Map.of("name", name, "type", type)));
         out.put("columns", columns);
         out.put("data_version", p.dataVersion());

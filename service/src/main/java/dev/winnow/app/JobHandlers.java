@@ -1,6 +1,9 @@
 package dev.winnow.app;
 
+import dev.winnow.ingest.FactorBuildJob;
+import dev.winnow.ingest.FactorBuilds;
 import dev.winnow.ingest.JobHandler;
+import dev.winnow.ingest.JobKinds;
 import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.FactorStore;
@@ -16,6 +19,8 @@ final class JobHandlers {
 
     static Map<String, JobHandler> create(PanelStore panels, FactorStore factors, UploadSpool spool, JobQueue queue) {
         Map<String, JobHandler> handlers = new HashMap<>();
+        FactorBuilds builds = new FactorBuilds(panels, factors);
+        handlers.put(JobKinds.FACTOR_BUILD, new FactorBuildJob(factors, builds));
         return handlers;
     }
 }

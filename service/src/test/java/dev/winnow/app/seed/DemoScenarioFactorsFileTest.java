@@ -45,7 +45,7 @@ class DemoScenarioFactorsFileTest {
             assertFalse(definition.path("theme").asText().isBlank(), name + " needs a theme");
             assertFalse(definition.path("rationale").asText().isBlank(), name + " needs a rationale");
             if (method.equals("external")) {
-                assertTrue(Files.isRegularFile(seedData.resolve(definition.path("signal").asText() + ".csv")), name);
+                assertTrue(Files.isRegularFile(seedData.resolve(factor.path("series_file").asText())), name);
             } else {
                 assertEquals("demo-market", definition.path("panel").asText(), name);
             }

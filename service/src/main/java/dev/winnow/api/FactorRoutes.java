@@ -1,0 +1,203 @@
+package dev.winnow.api;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.construct.DefinitionValidator;
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorDefinition.Method;
+import dev.winnow.construct.PanelSchema;
+import dev.winnow.ingest.JobKinds;
+import dev.winnow.ingest.JobQueue;
+import dev.winnow.ingest.JsonText;
+import dev.winnow.ingest.UploadSpool;
+import dev.winnow.stats.ReturnSeries;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.DefineOutcome;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.FactorStore.SeriesSummary;
+import dev.winnow.store.FactorStore.StoredTurnover;
+import dev.winnow.store.PanelStore;
+import dev.winnow.store.PanelStore.PanelRecord;
+import io.javalin.http.Context;
+
+import java.util.ArrayList;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/** Factor definitions, versions, series and turnover. */
+final class FactorRoutes {
+    private final FactorStore factors;
+    private final PanelStore panels;
+    private final JobQueue queue;
+    private final UploadSpool spool;
+
+    FactorRoutes(FactorStore factors, PanelStore panels, JobQueue queue, UploadSpool spool) {
+        this.factors = factors;
+        this.panels = panels;
+        this.queue = queue;
+        this.spool = spool;
+    }
+
+    void define(Context ctx) {
+        String name = Names.check("Factor", ctx.pathParam("factor"));
+        JsonNode body = Json.readObject(ctx);
+        DefinitionJson.Parsed parsed = DefinitionJson.read(body);
+        if (!parsed.ok()) {
+            throw invalid(parsed.problems());
+        }
+        FactorDefinition def = parsed.definition();
+        Long panelId = null;
+        PanelSchema schema = null;
+        if (def.method() != Method.EXTERNAL && def.panel() != null) {
+            PanelRecord panel = panels.find(def.panel()).filter(PanelRecord::visible)
+                    .orElseThrow(() -> ApiProblem.badRequest("Unknown panel '" + def.panel() + "'; upload it first (GET /v1/panels lists panels)."));
+            panelId = panel.id();
+            schema = schemaOf(panels.columns(panel.id()));
+        }
+        List<String> problems = new ArrayList<>(DefinitionValidator.validate(def, schema));
+        if (def.riskFree() != null && factors.current(def.riskFree()).isEmpty()) {
+            problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
+        }
+        if (def.riskFree() != null && def.riskFree().equals(name)) {
+            problems.add("risk_free cannot name the factor itself");
+        }
+        if (!problems.isEmpty()) {
+            throw invalid(problems);
+        }
+        DefineOutcome outcome = factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
+        FactorVersionRecord v = outcome.version();
+        if (!outcome.created()) {
+            Json.respond(ctx, 200, view(v));
+            return;
+        }
+        if (def.method() == Method.EXTERNAL) {
+            factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
+            Json.respond(ctx, 201, view(factors.version(name, v.version()).orElseThrow()));
+            return;
+        }
+        Map<String, Object> params = new LinkedHashMap<>();
+        params.put("factor", name);
+        params.put("version", v.version());
+        long job = queue.enqueue(JobKinds.FACTOR_BUILD, params);
+        ctx.header("Location", "/v1/jobs/" + job);
+        Json.respond(ctx, 202, Map.of("job", String.valueOf(job), "factor", name, "version", v.version()));
+    }
+
+    private static ApiProblem invalid(List<String> problems) {
+        List<Map<String, Object>> errors = new ArrayList<>();
+        for (String p : problems) {
+            errors.add(Map.of("message", p));
+        }
+        return new ApiProblem(400, "Invalid factor definition", String.join("; ", problems), errors);
+    }
+
+    static PanelSchema schemaOf(Map<String, String> columns) {
+        Map<String, PanelSchema.ColumnType> types = new HashMap<>();
+        columns.forEach((column, type) -> {
+            if (!column.equals("market_cap")) {
+                types.put(column, type.equals("number") ? PanelSchema.ColumnType.NUMBER : PanelSchema.ColumnType.LABEL);
+            }
+        });
+        return new PanelSchema(types, columns.containsKey("market_cap"));
+    }
+
+    void uploadSeries(Context ctx) {
+        String name = ctx.pathParam("factor");
+        FactorVersionRecord v = factors.current(name)
+                .orElseThrow(() -> ApiProblem.notFound("No factor '" + name + "'; define it first with PUT /v1/factors/" + name
+                        + " {\"method\":\"external\"}."));
+        if (!v.method().equals("external")) {
+            throw new ApiProblem(409, "Conflict", "Factor '" + name + "' is built from panel data (method " + v.method()
+                    + "); only method external takes uploaded returns.");
+        }
+        Uploads.Received received = Uploads.receive(ctx, spool);
+        Map<String, Object> params = new LinkedHashMap<>();
+        params.put("factor", name);
+        params.put("version", v.version());
+        params.put("mode", received.mode());
+        params.put("file", received.spoolPath());
+        params.put("gzip", received.gzip());
+        Accepted.job(ctx, queue.enqueue(JobKinds.SERIES_UPLOAD, params));
+    }
+
+    void list(Context ctx) {
+        boolean includeRetired = "retired".equals(ctx.queryParam("include"));
+        List<Map<String, Object>> out = new ArrayList<>();
+        for (FactorVersionRecord v : factors.listCurrent(includeRetired)) {
+            out.add(view(v));
+        }
+        Json.respond(ctx, Map.of("factors", out));
+    }
+
+    void get(Context ctx) {
+        Json.respond(ctx, view(FactorLookup.version(ctx, factors, ctx.pathParam("factor"))));
+    }
+
+    void retire(Context ctx) {
+        String name = ctx.pathParam("factor");
+        if (factors.current(name).isEmpty()) {
+            throw ApiProblem.notFound("No factor '" + name + "'.");
+        }
+        factors.retire(name);
+        ctx.status(204);
+    }
+
+    void returns(Context ctx) {
+        SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
+        String form = Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period");
+        boolean csv = Responses.wantsCsv(ctx);
+        if (Responses.notModified(ctx, request.version(), csv)) {
+            return;
+        }
+        SeriesRequest.Resolved resolved = request.load(factors);
+        ReturnSeries series = form.equals("cumulative") ? dev.winnow.stats.FrequencyConversion.cumulative(resolved.series()) : resolved.series();
+        if (csv) {
+            Responses.csv(ctx, "date,return", series.dates(), series.values());
+            return;
+        }
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("factor", request.version().name());
+        out.put("version", request.version().version());
+        out.put("frequency", resolved.frequency().wireName());
+        out.put("leg", request.leg().name().toLowerCase(java.util.Locale.ROOT));
+        out.put("form", form);
+        out.put("dates", series.dates());
+        out.put("returns", series.values());
+        Json.respond(ctx, out);
+    }
+
+    void turnover(Context ctx) {
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
+        if (Responses.notModified(ctx, v, false)) {
+            return;
+        }
+        List<StoredTurnover> rows = factors.turnover(v.factorId(), v.version());
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("factor", v.name());
+        out.put("version", v.version());
+        out.put("dates", rows.stream().map(StoredTurnover::formationDate).toList());
+        out.put("turnover", rows.stream().mapToDouble(StoredTurnover::turnover).toArray());
+        Json.respond(ctx, out);
+    }
+
+    Map<String, Object> view(FactorVersionRecord v) {
+        SeriesSummary s = factors.seriesSummary(v.factorId(), v.version());
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("name", v.name());
+        out.put("version", v.version());
+        out.put("current_version", v.currentVersion());
+        out.put("definition", Json.MAPPER.valueToTree(JsonText.readMap(v.definitionJson())));
+        out.put("status", v.status());
+        out.put("retired", v.retired());
+        out.put("first_date", s.firstDate());
+        out.put("last_date", s.lastDate());
+        out.put("observations", s.observations());
+        out.put("data_version", v.dataVersion());
+        out.put("build_report", v.buildReport() == null ? null : JsonText.readMap(v.buildReport()));
+        out.put("created_at", v.createdAt());
+        out.put("built_at", v.builtAt());
+        return out;
+    }
+}

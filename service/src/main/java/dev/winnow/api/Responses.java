@@ -1,0 +1,75 @@
+package dev.winnow.api;
+
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import io.javalin.http.Context;
+
+import java.nio.charset.StandardCharsets;
+import java.time.LocalDate;
+import java.util.HexFormat;
+import java.util.Locale;
+
+/** CSV bodies and conditional GETs. */
+final class Responses {
+    private Responses() {
+    }
+
+    static boolean wantsCsv(Context ctx) {
+        String format = ctx.queryParam("format");
+        if (format != null && !format.isBlank()) {
+            return switch (format.trim().toLowerCase(Locale.ROOT)) {
+                case "csv" -> true;
+                case "json" -> false;
+                default -> throw ApiProblem.badRequest("Query parameter 'format' must be json or csv, got '" + format + "'.");
+            };
+        }
+        String accept = ctx.header("Accept");
+        return accept != null && accept.toLowerCase(Locale.ROOT).contains("text/csv") && !accept.toLowerCase(Locale.ROOT).contains("application/json");
+    }
+
+    /**
+     * Sets an ETag from the version's data version and the request's query and format; answers 304 when the client
+     * already holds it. The ETag changes whenever the series is rebuilt, extended or revised.
+     */
+    static boolean notModified(Context ctx, FactorVersionRecord v, boolean csv) {
+        String query = ctx.queryString() == null ? "" : ctx.queryString();
+        String tag = "\"" + v.factorId() + "." + v.version() + "." + v.dataVersion() + "." + shortHash(ctx.path() + "?" + query + (csv ? "#csv" : "#json")) + "\"";
+        ctx.header("ETag", tag);
+        String ifNoneMatch = ctx.header("If-None-Match");
+        if (ifNoneMatch != null) {
+            for (String candidate : ifNoneMatch.split(",")) {
+                String c = candidate.trim();
+                if (c.startsWith("W/")) {
+                    c = c.substring(2);
+                }
+                if (c.equals(tag) || c.equals("*")) {
+                    ctx.status(304);
+                    return true;
+                }
+            }
+        }
+        return false;
+    }
+
+    private static String shortHash(String text) {
+        try {
+            byte[] digest = java.security.MessageDigest.getInstance("SHA-256").digest(text.getBytes(StandardCharsets.UTF_8));
+            return HexFormat.of().formatHex(digest, 0, 8);
+        } catch (java.security.NoSuchAlgorithmException e) {
+            throw new IllegalStateException(e);
+        }
+    }
+
+    /** A two-column CSV with full double precision (the shortest decimal that reads back to the same double). */
+    static void csv(Context ctx, String header, LocalDate[] dates, double[] values) {
+        StringBuilder sb = new StringBuilder(dates.length * 24 + 32);
+        sb.append(header).append('\n');
+        for (int i = 0; i < dates.length; i++) {
+            sb.append(dates[i]).append(',');
+            if (Double.isFinite(values[i])) {
+                sb.append(values[i]);
+            }
+            sb.append('\n');
+        }
+        ctx.status(200).contentType("text/csv; charset=utf-8").result(sb.toString());
+    }
+}

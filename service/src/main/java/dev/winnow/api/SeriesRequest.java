@@ -1,0 +1,63 @@
+package dev.winnow.api;
+
+import dev.winnow.stats.Frequency;
+import dev.winnow.stats.FrequencyConversion;
+import dev.winnow.stats.ReturnSeries;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.FactorStore.Leg;
+import io.javalin.http.Context;
+
+import java.time.LocalDate;
+import java.util.List;
+
+/**
+ * The series a request names: factor, {@code version}, {@code leg} or {@code net=true}, {@code from}/{@code to} and
+ * {@code frequency}. Every analytics endpoint reads its input through here, so they all agree on what a series is.
+ */
+record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, LocalDate to, Frequency targetFrequency) {
+
+    static final List<String> FREQUENCIES = List.of("native", "daily", "weekly", "monthly", "quarterly", "annual");
+
+    /** Reads the factor named in the path and the series parameters of the query. */
+    static SeriesRequest of(Context ctx, FactorStore factors, String factorName) {
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, factorName);
+        String legText = Requests.choiceParam(ctx, "leg", List.of("spread", "long", "short"), "spread");
+        boolean net = Requests.booleanParam(ctx, "net");
+        if (net && !legText.equals("spread")) {
+            throw ApiProblem.badRequest("net=true applies to the spread only; drop 'leg' or 'net'.");
+        }
+        Leg leg = net ? Leg.NET : switch (legText) {
+            case "long" -> Leg.LONG;
+            case "short" -> Leg.SHORT;
+            default -> Leg.SPREAD;
+        };
+        LocalDate from = Requests.dateParam(ctx, "from");
+        LocalDate to = Requests.dateParam(ctx, "to");
+        Requests.checkRange(from, to);
+        return new SeriesRequest(v, leg, from, to, frequencyParam(ctx));
+    }
+
+    static Frequency frequencyParam(Context ctx) {
+        String f = Requests.choiceParam(ctx, "frequency", FREQUENCIES, "native");
+        return f.equals("native") ? null : Frequency.fromWireName(f);
+    }
+
+    /** The stored series with the date range and frequency of the request applied. */
+    Resolved load(FactorStore factors) {
+        ReturnSeries stored = factors.series(version.factorId(), version.version(), leg);
+        Frequency nativeFrequency = Frequency.fromDates(List.of(stored.dates()));
+        ReturnSeries ranged = stored.between(from, to);
+        if (targetFrequency == null || targetFrequency == nativeFrequency) {
+            return new Resolved(ranged, nativeFrequency);
+        }
+        if (targetFrequency.compareTo(nativeFrequency) < 0) {
+            throw ApiProblem.badRequest("Factor '" + version.name() + "' is " + nativeFrequency.wireName()
+                    + "; it cannot be converted to the finer frequency '" + targetFrequency.wireName() + "'.");
+        }
+        return new Resolved(FrequencyConversion.compound(ranged, targetFrequency), targetFrequency);
+    }
+
+    record Resolved(ReturnSeries series, Frequency frequency) {
+    }
+}
