@@ -34,6 +34,7 @@ public final class ApiServer {
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
+        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -61,6 +62,11 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
+            config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
+            config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
+            config.routes.get("/v1/correlations", analytics::correlations);
+            config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
