@@ -123,7 +123,7 @@ final class FactorRoutes {
     }
 
     void list(Context ctx) {
-        boolean includeRetired = "retired".equals(ctx.queryParam("include"));
+        boolean includeRetired = Requests.choiceParam(ctx, "include", List.of("retired"), "").equals("retired");
         List<Map<String, Object>> out = new ArrayList<>();
         for (FactorVersionRecord v : factors.listCurrent(includeRetired)) {
             out.add(view(v));

@@ -29,7 +29,7 @@ public final class Json {
         module.addSerializer(double.class, new FiniteDoubleSerializer());
         module.addSerializer(double[].class, new FiniteDoubleArraySerializer());
         module.addSerializer(LocalDate.class, new ToStringSerializer<>(LocalDate.class));
-        module.addSerializer(OffsetDateTime.class, new ToStringSerializer<>(OffsetDateTime.class));
+        module.addSerializer(OffsetDateTime.class, new TimestampSerializer());
         return new ObjectMapper()
                 .registerModule(module)
                 .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
@@ -113,6 +113,21 @@ public final class Json {
                 }
             }
             gen.writeEndArray();
+        }
+    }
+
+    /** RFC 3339 timestamps in UTC with milliseconds, e.g. 2026-12-01T21:30:00.000Z. */
+    private static final class TimestampSerializer extends StdSerializer<OffsetDateTime> {
+        private static final java.time.format.DateTimeFormatter FORMAT =
+                java.time.format.DateTimeFormatter.ofPattern("yyyy-MM-dd'T'HH:mm:ss.SSSXXX");
+
+        TimestampSerializer() {
+            super(OffsetDateTime.class);
+        }
+
+        @Override
+        public void serialize(OffsetDateTime value, JsonGenerator gen, SerializerProvider provider) throws IOException {
+            gen.writeString(FORMAT.format(value.withOffsetSameInstant(java.time.ZoneOffset.UTC)));
         }
     }
 
