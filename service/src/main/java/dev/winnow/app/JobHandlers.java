@@ -4,12 +4,15 @@ import dev.winnow.ingest.FactorBuildJob;
 import dev.winnow.ingest.FactorBuilds;
 import dev.winnow.ingest.JobHandler;
 import dev.winnow.ingest.JobKinds;
+import dev.winnow.ingest.PanelUploadJob;
+import dev.winnow.ingest.SeriesUploadJob;
 import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.PanelStore;
 
 import java.util.HashMap;
+import java.util.List;
 import java.util.Map;
 
 /** The job handlers by kind. */
@@ -21,6 +24,8 @@ final class JobHandlers {
         Map<String, JobHandler> handlers = new HashMap<>();
         FactorBuilds builds = new FactorBuilds(panels, factors);
         handlers.put(JobKinds.FACTOR_BUILD, new FactorBuildJob(factors, builds));
+        handlers.put(JobKinds.PANEL_UPLOAD, new PanelUploadJob(panels, factors, builds, spool, List.of()));
+        handlers.put(JobKinds.SERIES_UPLOAD, new SeriesUploadJob(factors, builds, spool));
         return handlers;
     }
 }
