@@ -140,8 +140,6 @@ public final class LoadingsRoutes {
         Requests.allowOnly(body, Set.of("panel", "date", "factors", "holdings", "window", "min_obs"));
         PanelRecord panel = visiblePanel(Requests.requiredText(body, "panel"));
         LocalDate date = optionalDate(body, "date");
-        Regression regression = regression(panel, optionalNames(body, "factors"),
-                optionalInt(body, "window"), optionalInt(body, "min_obs"));
         JsonNode holdings = body.get("holdings");
         if (holdings == null || !holdings.isArray() || holdings.isEmpty()) {
             throw ApiProblem.badRequest("Field 'holdings' must be a non-empty array of {\"security\": code, \"weight\": number}.");
@@ -170,6 +168,8 @@ public final class LoadingsRoutes {
             securityIds[h] = ids.getOrDefault(code, -1);
             weights[h] = weight.asDouble();
         }
+        Regression regression = regression(panel, optionalNames(body, "factors"),
+                optionalInt(body, "window"), optionalInt(body, "min_obs"));
         LocalDate asOf = date != null ? date : panel.lastDate();
         PortfolioExposure exposure = PortfolioExposure.of(loadingsAt(ctx, panel, asOf, regression), securityIds, weights);
         Map<String, Object> out = head(panel, "date", asOf, regression.spec());
@@ -332,7 +332,7 @@ public final class LoadingsRoutes {
                 spec = LoadingsSpec.withDefaults(names, window, minObs, frequency);
             }
         } catch (IllegalArgumentException e) {
-            throw ApiProblem.badRequest(capitalised(e.getMessage()) + ".");
+            throw ApiProblem.badRequest("Loadings settings: " + e.getMessage() + ".");
         }
         if (spec.window() > panel.dateCount()) {
             throw ApiProblem.badRequest("Window " + spec.window() + (window == null ? " (the default for " + frequency.wireName()
@@ -346,10 +346,6 @@ public final class LoadingsRoutes {
         } catch (IllegalStateException e) {
             throw ApiProblem.badRequest(e.getMessage());
         }
-    }
-
-    private static String capitalised(String message) {
-        return message.isEmpty() ? message : Character.toUpperCase(message.charAt(0)) + message.substring(1);
     }
 
     private PanelRecord panelFromQuery(Context ctx) {
