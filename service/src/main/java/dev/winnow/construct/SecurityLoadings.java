@@ -8,6 +8,7 @@ import java.time.LocalDate;
 import java.util.Arrays;
 import java.util.List;
 import java.util.function.Consumer;
+import java.util.stream.IntStream;
 
 /**
  * Security loadings by time-series regression (the regressions of Fama and French 1993, Journal of Financial
@@ -116,10 +117,11 @@ public final class SecurityLoadings {
         double[] rSquared = nans(m);
         double[] residualVol = nans(m);
         LinearRegression.Design design = LinearRegression.design(x);
-        for (int i = 0; i < m; i++) {
+        // Securities are independent and each writes only its own slots, so they may be fitted in parallel.
+        IntStream.range(0, m).parallel().forEach(i -> {
             usable[i] = countUsable(y[i], present);
             if (usable[i] < minObs) {
-                continue;
+                return;
             }
             RegressionResult fit = design.fit(y[i]);
             alpha[i] = fit.alpha();
@@ -128,7 +130,7 @@ public final class SecurityLoadings {
             }
             rSquared[i] = fit.rSquared();
             residualVol[i] = fit.residualStdev();
-        }
+        });
         return new LoadingsTable(factors.dates().get(dateIndex), minObs, ids, usable, alpha, betas, rSquared, residualVol,
                 factors.digest(dateIndex, windowSize));
     }

@@ -187,7 +187,12 @@ class LoadingsRoutesTest {
             assertEquals(cross.get("r_squared").asDouble(), body.get("r_squared").get(t).asDouble());
             assertEquals(cross.get("n").asInt(), body.get("n").get(t).asInt());
         }
+        String late = LoadingsTestStore.code(LoadingsTestStore.lateSecurity(SECURITIES));
+        JsonNode early = get("/v1/loadings/" + late + "?panel=" + PANEL + "&" + FACTORS + "&to=" + dates.get(20)).json();
+        assertEquals(dates.get(DATES / 5).toString(), early.get("dates").get(0).asText(), "the late security's history starts with its first row");
+        assertTrue(early.get("alpha").get(0).isNull() && early.get("betas").get(2).get(0).isNull(), "too few dates: null");
         assertProblem(get("/v1/loadings/NOPE-1?panel=" + PANEL + "&" + FACTORS), 404, "NOPE-1");
+        assertProblem(get("/v1/loadings/" + code + "?panel=" + PANEL + "&" + FACTORS + "&from=2024-03-01&to=2024-02-01"), 400, "swap");
     }
 
     @Test

@@ -43,6 +43,11 @@ public final class InMemoryPanel implements PanelSource {
         }
     }
 
+    /** A panel of ready-made cross-sections, one per date. */
+    public static InMemoryPanel of(List<LocalDate> dates, List<CrossSection> slices) {
+        return new InMemoryPanel(List.copyOf(dates), List.copyOf(slices));
+    }
+
     public static Builder builder(List<LocalDate> dates) {
         return new Builder(dates);
     }
