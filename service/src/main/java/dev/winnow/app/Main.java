@@ -20,8 +20,9 @@ public final class Main {
         switch (command) {
             case "serve" -> serve(config, false);
             case "demo" -> serve(config, true);
+            case "bench" -> Bench.run(args);
             default -> {
-                System.err.println("usage: java -jar winnow.jar serve|demo");
+                System.err.println("usage: java -jar winnow.jar serve | demo | bench [securities] [dates]");
                 System.exit(2);
             }
         }
