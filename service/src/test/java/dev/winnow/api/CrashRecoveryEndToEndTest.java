@@ -1,0 +1,145 @@
+package dev.winnow.api;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import org.junit.jupiter.api.AfterEach;
+import org.junit.jupiter.api.Test;
+
+import java.io.IOException;
+import java.net.ServerSocket;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.util.Comparator;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+import static org.junit.jupiter.api.Assertions.fail;
+
+/**
+ * Kills the service process (SIGKILL) in the middle of an ingest and starts it again on the same store: the
+ * acknowledged upload is not lost (its job runs again), no row is applied twice, and no job stays 'running'.
+ */
+class CrashRecoveryEndToEndTest {
+    private static final String TOKEN = "crash-test-token";
+    private static final ObjectMapper JSON = new ObjectMapper();
+    private final HttpClient client = HttpClient.newHttpClient();
+    private Path dir;
+    private Process process;
+    private int port;
+
+    @AfterEach
+    void cleanUp() throws IOException {
+        if (process != null) {
+            process.destroyForcibly();
+        }
+        if (dir != null) {
+            try (var files = Files.walk(dir)) {
+                files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+            }
+        }
+    }
+
+    @Test
+    void killDuringIngestLosesNothingAndAppliesNothingTwice() throws Exception {
+        dir = Files.createTempDirectory("winnow-crash");
+        port = freePort();
+        startService();
+        assertEquals("succeeded", await(upload("date,security,return,market_cap,score\n2019-12-31,A,0.01,100,1\n")).path("state").asText());
+
+        int securities = 400;
+        int dates = 500;
+        StringBuilder big = new StringBuilder("date,security,return,market_cap,score\n");
+        java.time.LocalDate d = java.time.LocalDate.of(2020, 1, 1);
+        for (int t = 0; t < dates; t++, d = d.plusDays(1)) {
+            for (int s = 0; s < securities; s++) {
+                big.append(d).append(",S").append(s).append(',').append(0.001 * ((s + t) % 7 - 3)).append(",100,")
+                        .append((s * 31 + t) % 97).append('\n');
+            }
+        }
+        String job = upload(big.toString());
+        long deadline = System.nanoTime() + Duration.ofSeconds(60).toNanos();
+        while (true) {
+            JsonNode state = get("/v1/jobs/" + job);
+            if (state.path("state").asText().equals("running") && state.path("progress").asDouble() > 0.05) {
+                break;
+            }
+            if (state.path("state").asText().equals("succeeded") || System.nanoTime() > deadline) {
+                fail("the ingest finished or never started before it could be interrupted: " + state);
+            }
+            Thread.sleep(5);
+        }
+        process.destroyForcibly().waitFor();
+
+        startService();
+        JsonNode afterRestart = get("/v1/jobs/" + job);
+        assertTrue(!afterRestart.path("state").asText().equals("failed"), afterRestart.toString());
+        JsonNode finished = await(job);
+        assertEquals("succeeded", finished.path("state").asText(), finished.toString());
+        JsonNode panel = get("/v1/panels/crash");
+        assertEquals(1 + securities * dates, panel.path("rows").asLong(), panel.toString());
+        assertEquals(1 + dates, panel.path("dates").asInt(), panel.toString());
+        assertEquals(1 + securities, panel.path("securities").asInt(), panel.toString());
+    }
+
+    private void startService() throws Exception {
+        ProcessBuilder pb = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "java").toString(),
+                "-Xmx256m", "-cp", System.getProperty("java.class.path"), "dev.winnow.app.Main", "serve");
+        pb.environment().put("WINNOW_PORT", String.valueOf(port));
+        pb.environment().put("WINNOW_DATA_DIR", dir.toString());
+        pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);
+        pb.redirectErrorStream(true).redirectOutput(dir.resolve("service.log").toFile());
+        process = pb.start();
+        long deadline = System.nanoTime() + Duration.ofSeconds(60).toNanos();
+        while (System.nanoTime() < deadline) {
+            try {
+                HttpResponse<String> r = client.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/health")).build(),
+                        HttpResponse.BodyHandlers.ofString());
+                if (r.statusCode() == 200) {
+                    return;
+                }
+            } catch (IOException notYet) {
+                Thread.sleep(100);
+            }
+        }
+        fail("the service did not start: " + Files.readString(dir.resolve("service.log")));
+    }
+
+    private String upload(String csv) throws Exception {
+        HttpResponse<String> r = client.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/panels/crash/uploads"))
+                .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "text/csv")
+                .POST(HttpRequest.BodyPublishers.ofString(csv)).build(), HttpResponse.BodyHandlers.ofString());
+        assertEquals(202, r.statusCode(), r.body());
+        return JSON.readTree(r.body()).path("job").asText();
+    }
+
+    private JsonNode get(String path) throws Exception {
+        HttpResponse<String> r = client.send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + path))
+                .header("Authorization", "Bearer " + TOKEN).build(), HttpResponse.BodyHandlers.ofString());
+        return JSON.readTree(r.body());
+    }
+
+    private JsonNode await(String job) throws Exception {
+        long deadline = System.nanoTime() + Duration.ofSeconds(120).toNanos();
+        while (System.nanoTime() < deadline) {
+            JsonNode state = get("/v1/jobs/" + job);
+            String s = state.path("state").asText();
+            if (s.equals("succeeded") || s.equals("failed")) {
+                return state;
+            }
+            Thread.sleep(20);
+        }
+        fail("job " + job + " did not finish");
+        return null;
+    }
+
+    private static int freePort() throws IOException {
+        try (ServerSocket socket = new ServerSocket(0)) {
+            return socket.getLocalPort();
+        }
+    }
+}
