@@ -1,0 +1,131 @@
+package dev.winnow.stats;
+
+import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import java.time.LocalDate;
+import java.util.ArrayList;
+import java.util.List;
+import org.junit.jupiter.api.Test;
+
+/**
+ * Spanning regression, stability and the theme composite against statsmodels (OLS, HAC with use_correction=False)
+ * and pandas (inner-join means): service/src/test/scripts/evidence_fixture.py, fixture fixtures/evidence.json.
+ */
+class EvidenceStatisticsTest {
+    private static final double TOLERANCE = 1e-10;
+    private static final JsonNode FIXTURE = FixtureFiles.read("evidence.json");
+
+    @Test
+    void spanningRegressionMatchesStatsmodelsHac() {
+        JsonNode f = FIXTURE.get("spanning");
+        List<ReturnSeries> others = new ArrayList<>();
+        for (JsonNode s : f.get("others")) {
+            others.add(FixtureFiles.series(s.get("dates"), s.get("returns")));
+        }
+        ReturnSeries factor = FixtureFiles.series(f.get("factor").get("dates"), f.get("factor").get("returns"));
+        SpanningRegression r = SpanningRegression.of(factor, others);
+        assertEquals(f.get("n").asInt(), r.n());
+        assertEquals(f.get("nw_lags").asInt(), r.nwLags());
+        assertEquals(f.get("alpha").asDouble(), r.alpha(), 1e-12);
+        assertEquals(f.get("alpha_nw_t").asDouble(), r.alphaNwTStat(), TOLERANCE);
+        assertEquals(f.get("r_squared").asDouble(), r.rSquared(), TOLERANCE);
+        double[] betas = FixtureFiles.doubles(f.get("betas"));
+        for (int j = 0; j < betas.length; j++) {
+            assertEquals(betas[j], r.betas()[j], TOLERANCE, "beta " + j);
+        }
+    }
+
+    @Test
+    void spanningWithoutOthersOrDegreesOfFreedomIsUndefined() {
+        ReturnSeries a = series(0.01, 0.02, -0.01, 0.03);
+        assertTrue(Double.isNaN(SpanningRegression.of(a, List.of()).alphaNwTStat()));
+        // three common dates and two regressors leave no residual degree of freedom: n <= k + 1
+        SpanningRegression tight = SpanningRegression.of(a.between(null, LocalDate.of(2020, 3, 31)), List.of(a, a));
+        assertEquals(3, tight.n());
+        assertTrue(Double.isNaN(tight.alpha()));
+    }
+
+    @Test
+    void stabilityMatchesStatsmodelsOnHalvesDecadesRollingWindowsAndDiscoverySplit() {
+        JsonNode f = FIXTURE.get("stability");
+        ReturnSeries monthly = FixtureFiles.series(f.get("dates"), f.get("returns"));
+        LocalDate foundOn = LocalDate.parse(f.get("found_on").asText());
+        StabilityReport report = StabilityReport.of(monthly, 60, 2.0, foundOn);
+        assertPeriods(f.get("halves"), report.halves());
+        assertPeriods(f.get("decades"), report.decades());
+        assertEquals(f.get("share_above_2").asDouble(), report.shareAbove(), 1e-15);
+        assertPeriod(f.get("before"), report.foundOn().before());
+        assertPeriod(f.get("after"), report.foundOn().after());
+        assertEquals(f.get("ratio").asDouble(), report.foundOn().ratio(), TOLERANCE);
+    }
+
+    @Test
+    void stabilityOfAShortSeriesHasNoRollingShare() {
+        StabilityReport report = StabilityReport.of(series(0.01, 0.02, 0.03), 60, 2.0, null);
+        assertTrue(Double.isNaN(report.shareAbove()));
+        assertEquals(2, report.halves().get(0).n(), "the first half has the extra month");
+        assertEquals(null, report.foundOn());
+    }
+
+    @Test
+    void compositeMatchesPandasInnerJoinMean() {
+        JsonNode f = FIXTURE.get("composite");
+        List<ReturnSeries> members = new ArrayList<>();
+        for (JsonNode s : f.get("series")) {
+            members.add(FixtureFiles.series(s.get("dates"), s.get("returns")));
+        }
+        ReturnSeries composite = EqualWeightComposite.of(members);
+        ReturnSeries expected = FixtureFiles.series(f.get("dates"), f.get("returns"));
+        assertEquals(expected.size(), composite.size());
+        for (int t = 0; t < expected.size(); t++) {
+            assertEquals(expected.date(t), composite.date(t));
+            assertEquals(expected.value(t), composite.value(t), 1e-15, "at " + expected.date(t));
+        }
+        assertEquals(f.get("nw_t").asDouble(), PeriodStatistics.of(composite).nwTStat(), TOLERANCE);
+    }
+
+    @Test
+    void monthlyBasisCompoundsWeeklyAndExcludesAnnual() {
+        // Compounding by hand: five Fridays in January 2020, then 2020-02-07 in February.
+        LocalDate[] fridays = new LocalDate[6];
+        for (int i = 0; i < 6; i++) {
+            fridays[i] = LocalDate.of(2020, 1, 3).plusWeeks(i);
+        }
+        MonthlyBasis basis = MonthlyBasis.of(new ReturnSeries(fridays, new double[] {0.10, -0.05, 0.0, 0.0, 0.0, 0.02}));
+        assertEquals(Frequency.WEEKLY, basis.nativeFrequency());
+        assertEquals(2, basis.monthly().size());
+        assertEquals(1.10 * 0.95 - 1, basis.monthly().value(0), 1e-15);
+        assertEquals(LocalDate.of(2020, 1, 31), basis.monthly().date(0));
+        assertEquals(0.02, basis.monthly().value(1), 0.0);
+        ReturnSeries annual = new ReturnSeries(new LocalDate[] {LocalDate.of(2020, 12, 31), LocalDate.of(2021, 12, 31),
+                LocalDate.of(2022, 12, 30)}, new double[] {0.1, 0.2, 0.3});
+        assertTrue(MonthlyBasis.of(annual).excluded());
+        assertEquals(0, MonthlyBasis.of(annual).monthly().size());
+    }
+
+    private static void assertPeriods(JsonNode expected, List<PeriodStatistics> actual) {
+        assertEquals(expected.size(), actual.size());
+        for (int i = 0; i < expected.size(); i++) {
+            assertPeriod(expected.get(i), actual.get(i));
+        }
+    }
+
+    private static void assertPeriod(JsonNode expected, PeriodStatistics actual) {
+        String where = expected.get("from").asText() + ".." + expected.get("to").asText();
+        assertEquals(LocalDate.parse(expected.get("from").asText()), actual.from(), where);
+        assertEquals(LocalDate.parse(expected.get("to").asText()), actual.to(), where);
+        assertEquals(expected.get("n").asInt(), actual.n(), where);
+        assertEquals(expected.get("mean").asDouble(), actual.mean(), 1e-14, where);
+        assertEquals(expected.get("nw_t").asDouble(), actual.nwTStat(), TOLERANCE, where);
+    }
+
+    private static ReturnSeries series(double... values) {
+        LocalDate[] dates = new LocalDate[values.length];
+        for (int i = 0; i < values.length; i++) {
+            dates[i] = LocalDate.of(2020, 1, 31).plusMonths(i).withDayOfMonth(1).plusMonths(1).minusDays(1);
+        }
+        return new ReturnSeries(dates, values);
+    }
+}
