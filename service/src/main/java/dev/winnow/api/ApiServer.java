@@ -35,6 +35,7 @@ public final class ApiServer {
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -67,6 +68,10 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
+            config.routes.get("/v1/evidence", evidence::table);
+            config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
+            config.routes.get("/v1/themes", evidence::themes);
+            config.routes.get("/v1/themes/{theme}/returns", evidence::themeReturns);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),

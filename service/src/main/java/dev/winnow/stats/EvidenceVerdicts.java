@@ -78,11 +78,11 @@ public final class EvidenceVerdicts {
         boolean halvesAgree = report.halves().stream().allMatch(h -> sameSign(h.mean(), fullMean));
         String share = fmt(report.shareAbove()) + " of the " + ROLLING_WINDOW + "-month windows have NW t above " + fmt(ROLLING_T);
         if (halvesAgree && report.shareAbove() >= MIN_SHARE) {
-            return new SectionVerdict(Verdict.HOLDS, th, "Both halves earn the premium with the full sample's sign and "
+            return new SectionVerdict(Verdict.HOLDS, th, "Both halves' means have the full sample's sign and "
                     + share + " (at least " + fmt(MIN_SHARE) + ").");
         }
         if (halvesAgree) {
-            return new SectionVerdict(Verdict.WEAK, th, "Both halves earn the premium with the full sample's sign, but only "
+            return new SectionVerdict(Verdict.WEAK, th, "Both halves' means have the full sample's sign, but only "
                     + share + " (needs " + fmt(MIN_SHARE) + ").");
         }
         return new SectionVerdict(Verdict.FAILS, th, "One half of the sample has a mean of the other sign than the full sample (or none).");
@@ -140,12 +140,12 @@ public final class EvidenceVerdicts {
             return notEnough(th, "Only " + tally.counted() + " segment(s) have at least " + MIN_MONTHS + " monthly returns; a verdict needs two.");
         }
         if (tally.sameSign() == tally.counted()) {
-            return new SectionVerdict(Verdict.HOLDS, th, "All " + counted + " earn the premium with the full factor's sign.");
+            return new SectionVerdict(Verdict.HOLDS, th, "All " + counted + " have a mean with the full factor's sign.");
         }
         if (2 * tally.sameSign() > tally.counted()) {
-            return new SectionVerdict(Verdict.WEAK, th, "Only " + counted + " earn the premium with the full factor's sign.");
+            return new SectionVerdict(Verdict.WEAK, th, "Only " + counted + " have a mean with the full factor's sign.");
         }
-        return new SectionVerdict(Verdict.FAILS, th, "No more than half (" + counted + ") earn the premium with the full factor's sign.");
+        return new SectionVerdict(Verdict.FAILS, th, "No more than half (" + counted + ") have a mean with the full factor's sign.");
     }
 
     /**
@@ -173,14 +173,14 @@ public final class EvidenceVerdicts {
         }
         String compositeT = "the composite's NW t is " + fmt(composite.nwTStat());
         if (allAgree && sign * composite.nwTStat() > T_WEAK) {
-            return new SectionVerdict(Verdict.HOLDS, th, "Every variant earns the premium with this factor's sign and "
+            return new SectionVerdict(Verdict.HOLDS, th, "Every variant's NW t has this factor's sign and "
                     + compositeT + ", beyond " + fmt(T_WEAK) + ".");
         }
         if (sameSign(composite.mean(), factorMean)) {
-            return new SectionVerdict(Verdict.WEAK, th, "The composite earns the premium with this factor's sign, but "
+            return new SectionVerdict(Verdict.WEAK, th, "The composite's mean has this factor's sign, but "
                     + (allAgree ? compositeT + ", not beyond " + fmt(T_WEAK) : "not every variant does") + ".");
         }
-        return new SectionVerdict(Verdict.FAILS, th, "The theme's composite does not earn the premium with this factor's sign.");
+        return new SectionVerdict(Verdict.FAILS, th, "The theme's composite mean does not have this factor's sign.");
     }
 
     /**
