@@ -3,6 +3,7 @@ package dev.winnow.api;
 import dev.winnow.api.TrialLibrary.Snapshot;
 import dev.winnow.api.TrialLibrary.Trial;
 import dev.winnow.construct.DefinitionJson;
+import dev.winnow.stats.CalendarPeriods;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.EqualWeightComposite;
 import dev.winnow.stats.Frequency;
@@ -71,8 +72,10 @@ final class Themes {
 
     /**
      * The theme's composite: the equal-weight average of its live, ready members' spread returns on the dates all of
-     * them have. Members of different frequencies are first compounded to the coarsest of them. Then from/to,
-     * frequency and form as for a factor's returns; JSON or CSV; an ETag over every member's data version.
+     * them have. Members of different frequencies are first compounded to the coarsest of them; when that is weekly or
+     * coarser, every member's periods are dated by their last calendar day, so that members whose periods end on
+     * different days line up. Then from/to, frequency and form as for a factor's returns; JSON or CSV; an ETag over
+     * every member's data version.
      */
     void returns(Context ctx, String theme) {
         List<FactorVersionRecord> members = new ArrayList<>();
@@ -105,9 +108,8 @@ final class Themes {
             coarsest = f.compareTo(coarsest) > 0 ? f : coarsest;
         }
         for (int i = 0; i < series.size(); i++) {
-            if (Frequency.fromDates(List.of(series.get(i).dates())) != coarsest) {
-                series.set(i, FrequencyConversion.compound(series.get(i), coarsest));
-            }
+            ReturnSeries s = FrequencyConversion.compound(series.get(i), coarsest);
+            series.set(i, coarsest == Frequency.DAILY ? s : CalendarPeriods.labelledByPeriodEnd(s, coarsest));
         }
         ReturnSeries composite = EqualWeightComposite.of(series).between(from, to);
         Frequency frequency = coarsest;

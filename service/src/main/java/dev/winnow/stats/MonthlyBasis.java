@@ -5,11 +5,13 @@ import java.util.List;
 /**
  * The monthly basis of the evidence: trials of different frequencies compare only on one frequency. Daily and weekly
  * series are compounded to calendar months with {@link FrequencyConversion#compound} (the product of (1 + r) over the
- * observations dated in a month, minus one, labelled with the month's last observed date); a monthly series is grouped
- * the same way, which leaves one-observation months unchanged to the bit. Quarterly and annual series cannot be put
- * on a monthly basis (a month's return is not known from them) and are excluded with a reason.
+ * observations dated in a month, minus one); a monthly series is grouped the same way, which leaves one-observation
+ * months unchanged to the bit. Every month is then dated by its last calendar day ({@link CalendarPeriods}), so that
+ * series whose months end on different days (last business day, last calendar day) share their months. Quarterly and
+ * annual series cannot be put on a monthly basis (a month's return is not known from them) and are excluded with a
+ * reason.
  *
- * @param monthly         the monthly returns (empty when excluded)
+ * @param monthly         the monthly returns, dated by the last calendar day of the month (empty when excluded)
  * @param nativeFrequency the frequency of the input series, from its dates ({@link Frequency#fromDates})
  * @param excludedReason  null when the series is on the monthly basis; otherwise why it cannot be
  */
@@ -28,7 +30,8 @@ public record MonthlyBasis(ReturnSeries monthly, Frequency nativeFrequency, Stri
             return new MonthlyBasis(ReturnSeries.empty(), frequency, "the series is " + frequency.wireName()
                     + "; a " + frequency.wireName() + " series cannot be put on the monthly basis that trials compare on");
         }
-        return new MonthlyBasis(FrequencyConversion.compound(series, Frequency.MONTHLY), frequency, null);
+        ReturnSeries monthly = FrequencyConversion.compound(series, Frequency.MONTHLY);
+        return new MonthlyBasis(CalendarPeriods.labelledByPeriodEnd(monthly, Frequency.MONTHLY), frequency, null);
     }
 
     public boolean excluded() {

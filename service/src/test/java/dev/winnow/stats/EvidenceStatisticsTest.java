@@ -87,7 +87,7 @@ class EvidenceStatisticsTest {
     }
 
     @Test
-    void monthlyBasisCompoundsWeeklyAndExcludesAnnual() {
+    void monthlyBasisCompoundsWeeklyDatesByMonthEndAndExcludesAnnual() {
         // Compounding by hand: five Fridays in January 2020, then 2020-02-07 in February.
         LocalDate[] fridays = new LocalDate[6];
         for (int i = 0; i < 6; i++) {
@@ -99,10 +99,26 @@ class EvidenceStatisticsTest {
         assertEquals(1.10 * 0.95 - 1, basis.monthly().value(0), 1e-15);
         assertEquals(LocalDate.of(2020, 1, 31), basis.monthly().date(0));
         assertEquals(0.02, basis.monthly().value(1), 0.0);
+        assertEquals(LocalDate.of(2020, 2, 29), basis.monthly().date(1), "months are dated by their last calendar day");
         ReturnSeries annual = new ReturnSeries(new LocalDate[] {LocalDate.of(2020, 12, 31), LocalDate.of(2021, 12, 31),
                 LocalDate.of(2022, 12, 30)}, new double[] {0.1, 0.2, 0.3});
         assertTrue(MonthlyBasis.of(annual).excluded());
         assertEquals(0, MonthlyBasis.of(annual).monthly().size());
+    }
+
+    @Test
+    void calendarPeriodEndsWorkedFromTheCalendar() {
+        // 2021-05-12 is a Wednesday: its ISO week runs Monday 10 to Sunday 16 May; Q2 ends 30 June; 2024 is a leap year.
+        LocalDate wednesday = LocalDate.of(2021, 5, 12);
+        assertEquals(wednesday, CalendarPeriods.periodEnd(wednesday, Frequency.DAILY));
+        assertEquals(LocalDate.of(2021, 5, 16), CalendarPeriods.periodEnd(wednesday, Frequency.WEEKLY));
+        assertEquals(LocalDate.of(2021, 6, 30), CalendarPeriods.periodEnd(wednesday, Frequency.QUARTERLY));
+        assertEquals(LocalDate.of(2021, 12, 31), CalendarPeriods.periodEnd(wednesday, Frequency.ANNUAL));
+        assertEquals(LocalDate.of(2024, 2, 29), CalendarPeriods.periodEnd(LocalDate.of(2024, 2, 10), Frequency.MONTHLY));
+        ReturnSeries twoInMay = new ReturnSeries(new LocalDate[] {wednesday, wednesday.plusDays(1)}, new double[] {0.01, 0.02});
+        IllegalArgumentException e = org.junit.jupiter.api.Assertions.assertThrows(IllegalArgumentException.class,
+                () -> CalendarPeriods.labelledByPeriodEnd(twoInMay, Frequency.MONTHLY));
+        assertTrue(e.getMessage().contains("compound"), e.getMessage());
     }
 
     private static void assertPeriods(JsonNode expected, List<PeriodStatistics> actual) {
