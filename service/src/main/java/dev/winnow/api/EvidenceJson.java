@@ -62,15 +62,14 @@ final class EvidenceJson {
     }
 
     /**
-     * A section: its numbers, then verdict, thresholds and reason. When the version has no monthly series at all
-     * ({@code unavailable} not null), a not_enough_data verdict gives that as its reason.
+     * A section: its numbers, then verdict, thresholds and reason. When the version cannot be judged at all
+     * ({@code unavailable} not null: not ready, or no trial), the verdict is not_enough_data with that reason.
      */
     static Map<String, Object> section(Map<String, Object> numbers, SectionVerdict verdict, String unavailable) {
         Map<String, Object> out = new LinkedHashMap<>(numbers);
-        out.put("verdict", verdict.verdict().wireName());
+        out.put("verdict", unavailable == null ? verdict.verdict().wireName() : Verdict.NOT_ENOUGH_DATA.wireName());
         out.put("thresholds", verdict.thresholds());
-        boolean becauseUnavailable = unavailable != null && verdict.verdict() == Verdict.NOT_ENOUGH_DATA;
-        out.put("reason", becauseUnavailable ? unavailable : verdict.reason());
+        out.put("reason", unavailable == null ? verdict.reason() : unavailable);
         return out;
     }
 }

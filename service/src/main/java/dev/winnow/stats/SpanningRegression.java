@@ -3,6 +3,7 @@ package dev.winnow.stats;
 import java.util.ArrayList;
 import java.util.Arrays;
 import java.util.List;
+import java.util.Objects;
 
 /**
  * Spanning regression: is a factor's return explained by other factors? On the dates the factor and every other
@@ -28,6 +29,24 @@ public record SpanningRegression(int n, double alpha, double alphaNwTStat, int n
     @Override
     public double[] betas() {
         return betas.clone();
+    }
+
+    @Override
+    public boolean equals(Object o) {
+        return o instanceof SpanningRegression r && n == r.n && nwLags == r.nwLags && Double.compare(alpha, r.alpha) == 0
+                && Double.compare(alphaNwTStat, r.alphaNwTStat) == 0 && Arrays.equals(betas, r.betas)
+                && Double.compare(rSquared, r.rSquared) == 0;
+    }
+
+    @Override
+    public int hashCode() {
+        return Objects.hash(n, alpha, alphaNwTStat, nwLags, Arrays.hashCode(betas), rSquared);
+    }
+
+    @Override
+    public String toString() {
+        return "SpanningRegression[n=" + n + ", alpha=" + alpha + ", alphaNwTStat=" + alphaNwTStat + ", nwLags=" + nwLags
+                + ", betas=" + Arrays.toString(betas) + ", rSquared=" + rSquared + "]";
     }
 
     /** Number of dates both series have (the common months of two monthly series). */
