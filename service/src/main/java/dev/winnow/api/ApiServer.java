@@ -4,6 +4,7 @@ import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
+import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
@@ -22,7 +23,7 @@ public final class ApiServer {
 
     /** What the handlers need. */
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors,
-                               JobQueue queue, UploadSpool spool) {
+                               LoadingsStore loadings, JobQueue queue, UploadSpool spool) {
     }
 
     private ApiServer() {
@@ -36,6 +37,7 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
+        LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -72,6 +74,13 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
             config.routes.get("/v1/themes", evidence::themes);
             config.routes.get("/v1/themes/{theme}/returns", evidence::themeReturns);
+
+            config.routes.get("/v1/loadings", loadings::get);
+            config.routes.get("/v1/loadings/{security}", loadings::securityHistory);
+            config.routes.post("/v1/exposures", loadings::exposures);
+            config.routes.put("/v1/panels/{panel}/loadings-config", loadings::putConfig);
+            config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
+            config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),

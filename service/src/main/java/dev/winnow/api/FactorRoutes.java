@@ -1,27 +1,19 @@
 package dev.winnow.api;
 
-import com.fasterxml.jackson.databind.JsonNode;
-import dev.winnow.construct.DefinitionJson;
-import dev.winnow.construct.DefinitionValidator;
-import dev.winnow.construct.FactorDefinition;
-import dev.winnow.construct.FactorDefinition.Method;
-import dev.winnow.construct.PanelSchema;
+import dev.winnow.ingest.FactorDefinitions;
 import dev.winnow.ingest.JobKinds;
 import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.JsonText;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
-import dev.winnow.store.FactorStore.DefineOutcome;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.SeriesSummary;
 import dev.winnow.store.FactorStore.StoredTurnover;
 import dev.winnow.store.PanelStore;
-import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
 
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -29,78 +21,35 @@ import java.util.Map;
 /** Factor definitions, versions, series and turnover. */
 final class FactorRoutes {
     private final FactorStore factors;
-    private final PanelStore panels;
+    private final FactorDefinitions definitions;
     private final JobQueue queue;
     private final UploadSpool spool;
 
     FactorRoutes(FactorStore factors, PanelStore panels, JobQueue queue, UploadSpool spool) {
         this.factors = factors;
-        this.panels = panels;
+        this.definitions = new FactorDefinitions(factors, panels, queue);
         this.queue = queue;
         this.spool = spool;
     }
 
     void define(Context ctx) {
         String name = Names.check("Factor", ctx.pathParam("factor"));
-        JsonNode body = Json.readObject(ctx);
-        DefinitionJson.Parsed parsed = DefinitionJson.read(body);
-        if (!parsed.ok()) {
-            throw invalid(parsed.problems());
-        }
-        FactorDefinition def = parsed.definition();
-        Long panelId = null;
-        PanelSchema schema = null;
-        if (def.method() != Method.EXTERNAL && def.panel() != null) {
-            PanelRecord panel = panels.find(def.panel()).filter(PanelRecord::visible)
-                    .orElseThrow(() -> ApiProblem.badRequest("Unknown panel '" + def.panel() + "'; upload it first (GET /v1/panels lists panels)."));
-            panelId = panel.id();
-            schema = schemaOf(panels.columns(panel.id()));
-        }
-        List<String> problems = new ArrayList<>(DefinitionValidator.validate(def, schema));
-        if (def.riskFree() != null && factors.current(def.riskFree()).isEmpty()) {
-            problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
-        }
-        if (def.riskFree() != null && def.riskFree().equals(name)) {
-            problems.add("risk_free cannot name the factor itself");
-        }
-        if (!problems.isEmpty()) {
-            throw invalid(problems);
-        }
-        DefineOutcome outcome = factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
-        FactorVersionRecord v = outcome.version();
-        if (!outcome.created()) {
-            Json.respond(ctx, 200, view(v));
-            return;
-        }
-        if (def.method() == Method.EXTERNAL) {
-            factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
-            Json.respond(ctx, 201, view(factors.version(name, v.version()).orElseThrow()));
-            return;
-        }
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("factor", name);
-        params.put("version", v.version());
-        long job = queue.enqueue(JobKinds.FACTOR_BUILD, params);
-        ctx.header("Location", "/v1/jobs/" + job);
-        Json.respond(ctx, 202, Map.of("job", String.valueOf(job), "factor", name, "version", v.version()));
-    }
-
-    private static ApiProblem invalid(List<String> problems) {
-        List<Map<String, Object>> errors = new ArrayList<>();
-        for (String p : problems) {
-            errors.add(Map.of("message", p));
-        }
-        return new ApiProblem(400, "Invalid factor definition", String.join("; ", problems), errors);
-    }
-
-    static PanelSchema schemaOf(Map<String, String> columns) {
-        Map<String, PanelSchema.ColumnType> types = new HashMap<>();
-        columns.forEach((column, type) -> {
-            if (!column.equals("market_cap")) {
-                types.put(column, type.equals("number") ? PanelSchema.ColumnType.NUMBER : PanelSchema.ColumnType.LABEL);
+        FactorDefinitions.Defined defined;
+        try {
+            defined = definitions.define(name, Json.readObject(ctx));
+        } catch (FactorDefinitions.InvalidDefinitionException e) {
+            List<Map<String, Object>> errors = new ArrayList<>();
+            for (String p : e.problems()) {
+                errors.add(Map.of("message", p));
             }
-        });
-        return new PanelSchema(types, columns.containsKey("market_cap"));
+            throw new ApiProblem(400, "Invalid factor definition", e.getMessage(), errors);
+        }
+        if (defined.buildJob() == null) {
+            Json.respond(ctx, defined.created() ? 201 : 200, view(defined.version()));
+            return;
+        }
+        ctx.header("Location", "/v1/jobs/" + defined.buildJob());
+        Json.respond(ctx, 202, Map.of("job", String.valueOf(defined.buildJob()), "factor", name, "version", defined.version().version()));
     }
 
     void uploadSeries(Context ctx) {

@@ -64,12 +64,19 @@ final class PanelRoutes {
         out.put("rows", p.rowCount());
         out.put("frequency", p.frequency());
         List<Map<String, String>> columns = new ArrayList<>();
-        columns.add(Map.of("name", "date", "type", "date"));
-        columns.add(Map.of("name", "security", "type", "label"));
-        columns.add(Map.of("name", "return", "type", "number"));
-        extraColumns.forEach((name, type) -> columns.add(Map.of("name", name, "type", type)));
+        columns.add(column("date", "date"));
+        columns.add(column("security", "label"));
+        columns.add(column("return", "number"));
+        extraColumns.forEach((name, type) -> columns.add(column(name, type)));
         out.put("columns", columns);
         out.put("data_version", p.dataVersion());
         return out;
+    }
+
+    private static Map<String, String> column(String name, String type) {
+        Map<String, String> c = new LinkedHashMap<>();
+        c.put("name", name);
+        c.put("type", type);
+        return c;
     }
 }

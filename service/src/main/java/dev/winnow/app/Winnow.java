@@ -9,6 +9,7 @@ import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.Database;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
+import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
@@ -31,6 +32,7 @@ public final class Winnow implements AutoCloseable {
     private final Javalin http;
     private final JobQueue queue;
     private final String generatedAdminToken;
+    private final DemoLoader demo;
 
     private Winnow(Config config) throws IOException {
         this.config = config;
@@ -41,6 +43,7 @@ public final class Winnow implements AutoCloseable {
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi);
+        LoadingsStore loadings = new LoadingsStore(jdbi);
         UploadSpool spool = new UploadSpool(config.dataDir());
 
         int discarded = panels.discardAllStaging();
@@ -51,9 +54,10 @@ public final class Winnow implements AutoCloseable {
         this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
 
         this.queue = new JobQueue(jobs);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, spool, queue);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, loadings, spool);
         this.worker = new JobWorker(jobs, handlers);
-        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool), config.bind(), config.port());
+        this.demo = new DemoLoader(panels, factors, jobs, queue, spool);
+        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, loadings, queue, spool), config.bind(), config.port());
     }
 
     public static Winnow start(Config config) throws IOException {
@@ -82,6 +86,17 @@ public final class Winnow implements AutoCloseable {
         String token = Authenticator.newToken();
         tokens.insert("admin", "admin", Authenticator.hash(token));
         return token;
+    }
+
+    /**
+     * Loads the demo scenario when the store is empty; returns the factor names it defined, or an empty list when
+     * the store already held data.
+     */
+    public java.util.List<String> loadDemoIfEmpty() throws Exception {
+        if (!demo.storeIsEmpty()) {
+            return java.util.List.of();
+        }
+        return demo.load();
     }
 
     public int port() {

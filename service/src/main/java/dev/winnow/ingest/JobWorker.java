@@ -91,9 +91,12 @@ public final class JobWorker implements AutoCloseable {
                     outcome.errors().isEmpty() ? null : JsonText.write(outcome.errors()),
                     outcome.report().isEmpty() ? null : JsonText.write(outcome.report()));
         } catch (RuntimeException e) {
-            if (running) {
-                LOG.error("could not record the end of job {}", job.id(), e);
+            if (!running) {
+                return;
             }
+            LOG.error("could not record the end of job {}; marking it failed", job.id(), e);
+            jobs.finish(job.id(), false, outcome.counters(), JsonText.write(List.of(JobOutcome.error(null, null,
+                    "internal error while recording the job's result: " + e.getMessage()))), null);
         }
     }
 

@@ -2,13 +2,17 @@ package dev.winnow.ingest;
 
 import com.fasterxml.jackson.core.type.TypeReference;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import com.fasterxml.jackson.databind.module.SimpleModule;
+import com.fasterxml.jackson.databind.ser.std.ToStringSerializer;
 
 import java.io.IOException;
+import java.time.LocalDate;
 import java.util.Map;
 
 /** JSON text for job parameters and reports kept in the store. */
 public final class JsonText {
-    private static final ObjectMapper MAPPER = new ObjectMapper();
+    private static final ObjectMapper MAPPER = new ObjectMapper().registerModule(new SimpleModule("dates")
+            .addSerializer(LocalDate.class, ToStringSerializer.instance));
 
     private JsonText() {
     }

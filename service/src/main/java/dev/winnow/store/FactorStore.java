@@ -185,6 +185,28 @@ public final class FactorStore {
         });
     }
 
+    /**
+     * Stores an uploaded external series in one transaction: appended rows are added; revised rows replace the
+     * stored rows of the same dates. Bumps the data version.
+     */
+    public void saveExternal(long factorId, int version, List<StoredReturn> returns, boolean revise) {
+        jdbi.useTransaction(h -> {
+            if (revise) {
+                PreparedBatch del = h.prepareBatch("DELETE FROM factor_returns WHERE factor_id = :f AND version = :v AND obs_date = :d");
+                for (StoredReturn r : returns) {
+                    del.bind("f", factorId).bind("v", version).bind("d", r.date()).add();
+                }
+                if (!returns.isEmpty()) {
+                    del.execute();
+                }
+            }
+            insertReturns(h, factorId, version, returns);
+            h.createUpdate("UPDATE factor_versions SET status = 'ready', data_version = data_version + 1, built_at = :now "
+                            + "WHERE factor_id = :f AND version = :v")
+                    .bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
+        });
+    }
+
     private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
         if (returns.isEmpty()) {
             return;

@@ -83,6 +83,16 @@ public final class PanelStore {
         });
     }
 
+    /** The dates of a job's upload if it already committed (a job queued again after a crash must not apply twice). */
+    public Optional<List<LocalDate>> committedUploadDates(long jobId) {
+        return jdbi.withHandle(h -> {
+            Optional<Long> upload = h.createQuery("SELECT id FROM uploads WHERE job_id = :j AND state = 'committed'")
+                    .bind("j", jobId).mapTo(Long.class).findOne();
+            return upload.map(id -> h.createQuery("SELECT slice_date FROM panel_slices WHERE upload_id = :u ORDER BY slice_date")
+                    .bind("u", id).mapTo(LocalDate.class).list());
+        });
+    }
+
     public long beginUpload(long panelId, long jobId, String mode) {
         return jdbi.withHandle(h -> h.createUpdate("INSERT INTO uploads (panel_id, job_id, mode, state, created_at) "
                         + "VALUES (:p, :j, :m, 'staging', :now)")

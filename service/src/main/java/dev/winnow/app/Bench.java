@@ -1,0 +1,223 @@
+package dev.winnow.app;
+
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.winnow.app.seed.SyntheticPanelWriter;
+
+import java.io.IOException;
+import java.io.RandomAccessFile;
+import java.lang.management.ManagementFactory;
+import java.lang.management.MemoryPoolMXBean;
+import java.lang.management.MemoryType;
+import java.net.URI;
+import java.net.http.HttpClient;
+import java.net.http.HttpRequest;
+import java.net.http.HttpResponse;
+import java.nio.charset.StandardCharsets;
+import java.nio.file.Files;
+import java.nio.file.Path;
+import java.time.Duration;
+import java.time.OffsetDateTime;
+import java.util.ArrayList;
+import java.util.Comparator;
+import java.util.List;
+import java.util.Locale;
+
+/**
+ * The documented benchmark ({@code java -Xmx512m -jar winnow.jar bench [securities] [dates]}): generates a synthetic
+ * daily panel, then drives a real service over HTTP on a temporary store and reports ingest rows per second, the build
+ * time of one sort factor, the time to append one day to a panel with ten factors, and peak memory.
+ * Job times are the worker's own (started to finished); upload times include sending the body over loopback.
+ */
+final class Bench {
+    private static final String TOKEN = "bench-admin-token";
+    private static final ObjectMapper JSON = new ObjectMapper();
+
+    private final HttpClient client = HttpClient.newHttpClient();
+    private int port;
+
+    private Bench() {
+    }
+
+    static void run(String[] args) throws Exception {
+        int securities = args.length > 1 ? Integer.parseInt(args[1]) : 3000;
+        int dates = args.length > 2 ? Integer.parseInt(args[2]) : 6300;
+        new Bench().measure(securities, dates);
+    }
+
+    private void measure(int securities, int dates) throws Exception {
+        Path dir = Files.createTempDirectory("winnow-bench");
+        try {
+            Path panel = dir.resolve("panel.csv");
+            Path appendDay = dir.resolve("append.csv");
+            System.out.printf(Locale.ROOT, "generating %d securities x %d dates (+1 day to append) ...%n", securities, dates);
+            SyntheticPanelWriter.write(panel, securities, dates + 1, SyntheticPanelWriter.DEFAULT_SEED);
+            splitLastDate(panel, appendDay);
+            long rows = (long) securities * dates;
+            System.out.printf(Locale.ROOT, "panel file %.0f MB, append file %.1f MB%n", Files.size(panel) / 1e6, Files.size(appendDay) / 1e6);
+
+            Path store = dir.resolve("store");
+            try (Winnow winnow = Winnow.start(new Config(0, "127.0.0.1", store, Config.defaultH2Url(store), TOKEN))) {
+                port = winnow.port();
+                resetPeaks();
+                long t0 = System.nanoTime();
+                JsonNode ingest = awaitJob(upload("/v1/panels/bench/uploads", panel));
+                double uploadSeconds = (System.nanoTime() - t0) / 1e9;
+                double ingestSeconds = jobSeconds(ingest);
+                long heapIngest = peakHeap();
+                report("ingest job", ingest);
+                System.out.printf(Locale.ROOT, "ingest: %d rows, job %.1f s = %.0f rows/s (upload + job %.1f s), peak heap %d MB%n",
+                        rows, ingestSeconds, rows / ingestSeconds, uploadSeconds, heapIngest >> 20);
+
+                resetPeaks();
+                JsonNode build = awaitJob(define("mom", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
+                        + "\"buckets\":5,\"weighting\":\"cap\",\"rebalance\":\"monthly\",\"cost_bps\":10}"));
+                report("build job", build);
+                System.out.printf(Locale.ROOT, "build of one sort factor (quintiles, cap-weighted, monthly, daily returns): %.2f s, peak heap %d MB%n",
+                        jobSeconds(build), peakHeap() >> 20);
+
+                resetPeaks();
+                JsonNode buildDaily = awaitJob(define("mom_daily", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
+                        + "\"buckets\":5,\"weighting\":\"equal\"}"));
+                System.out.printf(Locale.ROOT, "build of one sort factor rebalanced every day: %.2f s, peak heap %d MB%n",
+                        jobSeconds(buildDaily), peakHeap() >> 20);
+
+                String[] more = {
+                    "{\"panel\":\"bench\",\"method\":\"market\"}",
+                    "{\"panel\":\"bench\",\"method\":\"size_sort\",\"signal\":\"book_to_price\",\"rebalance\":\"monthly\"}",
+                    "{\"panel\":\"bench\",\"method\":\"size_sort\",\"signal\":\"book_to_price\",\"output\":\"size\",\"rebalance\":\"monthly\"}",
+                    "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"gross_profitability\",\"rebalance\":\"monthly\"}",
+                    "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"asset_growth\",\"direction\":\"low_minus_high\",\"rebalance\":\"monthly\"}",
+                    "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"noise_alpha\",\"rebalance\":\"quarterly\"}",
+                    "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"book_to_price\",\"rebalance\":\"annual\",\"rebalance_month\":6,\"lag\":2}",
+                    "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"noise_beta\",\"buckets\":10,\"weighting\":\"cap\",\"rebalance\":\"monthly\"}",
+                };
+                List<String> jobs = new ArrayList<>();
+                for (int i = 0; i < more.length; i++) {
+                    jobs.add(define("f" + i, more[i]));
+                }
+                for (String job : jobs) {
+                    awaitJob(job);
+                }
+
+                resetPeaks();
+                JsonNode append = awaitJob(upload("/v1/panels/bench/uploads", appendDay));
+                report("append job", append);
+                System.out.printf(Locale.ROOT, "append one day (%d rows) to the %d-date panel and extend 10 factors: job %.3f s, peak heap %d MB%n",
+                        securities, dates, jobSeconds(append), peakHeap() >> 20);
+                System.out.printf(Locale.ROOT, "store size on disk: %.0f MB%n", directorySize(store) / 1e6);
+                System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
+                        Runtime.getRuntime().maxMemory() >> 20, peakResidentSet());
+            }
+        } finally {
+            try (var files = Files.walk(dir)) {
+                files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+            }
+        }
+    }
+
+    /** Moves the rows of the file's last date into a file of their own, with the header. */
+    private static void splitLastDate(Path panel, Path appendDay) throws IOException {
+        String header;
+        try (var reader = Files.newBufferedReader(panel)) {
+            header = reader.readLine();
+        }
+        try (RandomAccessFile file = new RandomAccessFile(panel.toFile(), "rw")) {
+            long length = file.length();
+            int tail = (int) Math.min(length, 8L << 20);
+            byte[] bytes = new byte[tail];
+            file.seek(length - tail);
+            file.readFully(bytes);
+            String text = new String(bytes, StandardCharsets.UTF_8);
+            String lastLine = text.substring(text.lastIndexOf('\n', text.length() - 2) + 1);
+            String lastDate = lastLine.substring(0, lastLine.indexOf(','));
+            int start = text.indexOf('\n' + lastDate + ',') + 1;
+            Files.writeString(appendDay, header + "\n" + text.substring(start));
+            file.setLength(length - tail + start);
+        }
+    }
+
+    private String upload(String path, Path file) throws Exception {
+        HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + path))
+                .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "text/csv")
+                .POST(HttpRequest.BodyPublishers.ofFile(file)).build();
+        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
+    }
+
+    private String define(String name, String definition) throws Exception {
+        HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/factors/" + name))
+                .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "application/json")
+                .PUT(HttpRequest.BodyPublishers.ofString(definition)).build();
+        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
+    }
+
+    private static String jobOf(HttpResponse<String> response) throws IOException {
+        if (response.statusCode() != 202) {
+            throw new IllegalStateException("expected 202, got " + response.statusCode() + ": " + response.body());
+        }
+        return JSON.readTree(response.body()).path("job").asText();
+    }
+
+    private JsonNode awaitJob(String id) throws Exception {
+        while (true) {
+            HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/jobs/" + id))
+                    .header("Authorization", "Bearer " + TOKEN).GET().timeout(Duration.ofSeconds(30)).build();
+            JsonNode job = JSON.readTree(client.send(request, HttpResponse.BodyHandlers.ofString()).body());
+            String state = job.path("state").asText();
+            if (state.equals("failed")) {
+                throw new IllegalStateException("job " + id + " failed: " + job);
+            }
+            if (state.equals("succeeded")) {
+                return job;
+            }
+            Thread.sleep(100);
+        }
+    }
+
+    private static double jobSeconds(JsonNode job) {
+        OffsetDateTime started = OffsetDateTime.parse(job.path("started_at").asText());
+        OffsetDateTime finished = OffsetDateTime.parse(job.path("finished_at").asText());
+        return Duration.between(started, finished).toNanos() / 1e9;
+    }
+
+    private static void report(String what, JsonNode job) {
+        System.out.println("  " + what + " report: " + job.path("report"));
+    }
+
+    private static void resetPeaks() {
+        System.gc();
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            pool.resetPeakUsage();
+        }
+    }
+
+    /** Sum of the heap pools' peaks since the last reset (includes garbage not yet collected). */
+    private static long peakHeap() {
+        long sum = 0;
+        for (MemoryPoolMXBean pool : ManagementFactory.getMemoryPoolMXBeans()) {
+            if (pool.getType() == MemoryType.HEAP) {
+                sum += pool.getPeakUsage().getUsed();
+            }
+        }
+        return sum;
+    }
+
+    private static String peakResidentSet() {
+        try {
+            for (String line : Files.readAllLines(Path.of("/proc/self/status"))) {
+                if (line.startsWith("VmHWM:")) {
+                    return line.substring(6).trim();
+                }
+            }
+        } catch (IOException | RuntimeException e) {
+            // not Linux: no figure
+        }
+        return "unknown";
+    }
+
+    private static long directorySize(Path dir) throws IOException {
+        try (var files = Files.walk(dir)) {
+            return files.filter(Files::isRegularFile).mapToLong(p -> p.toFile().length()).sum();
+        }
+    }
+}

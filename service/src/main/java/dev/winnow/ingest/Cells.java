@@ -1,0 +1,65 @@
+package dev.winnow.ingest;
+
+import java.nio.ByteBuffer;
+import java.nio.charset.CharacterCodingException;
+import java.nio.charset.CharsetDecoder;
+import java.nio.charset.CodingErrorAction;
+import java.nio.charset.StandardCharsets;
+
+/** Byte-level helpers for CSV cells: trimming spaces and tabs, ASCII comparison, UTF-8 checks. */
+final class Cells {
+
+    private Cells() {
+    }
+
+    static boolean isBlank(byte c) {
+        return c == ' ' || c == '\t';
+    }
+
+    static int trimStart(byte[] b, int start, int end) {
+        while (start < end && isBlank(b[start])) {
+            start++;
+        }
+        return start;
+    }
+
+    static int trimEnd(byte[] b, int start, int end) {
+        while (end > start && isBlank(b[end - 1])) {
+            end--;
+        }
+        return end;
+    }
+
+    /** True when bytes [s, e) equal the lower-case ASCII word, ignoring ASCII case. */
+    static boolean equalsIgnoreCase(byte[] b, int s, int e, String lowerWord) {
+        if (e - s != lowerWord.length()) {
+            return false;
+        }
+        for (int i = 0; i < lowerWord.length(); i++) {
+            if ((b[s + i] | 0x20) != lowerWord.charAt(i)) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /** True when bytes [s, e) are well-formed UTF-8. */
+    static boolean isValidUtf8(byte[] b, int s, int e) {
+        int i = s;
+        while (i < e && b[i] >= 0) {
+            i++;
+        }
+        if (i == e) {
+            return true;
+        }
+        CharsetDecoder decoder = StandardCharsets.UTF_8.newDecoder()
+                .onMalformedInput(CodingErrorAction.REPORT)
+                .onUnmappableCharacter(CodingErrorAction.REPORT);
+        try {
+            decoder.decode(ByteBuffer.wrap(b, i, e - i));
+            return true;
+        } catch (CharacterCodingException notUtf8) {
+            return false;
+        }
+    }
+}

@@ -1,0 +1,121 @@
+package dev.winnow.ingest;
+
+import dev.winnow.construct.CrossSection;
+import java.time.LocalDate;
+import java.util.Arrays;
+import java.util.LinkedHashMap;
+import java.util.Map;
+
+/**
+ * The rows of one date collected during the second pass, column by column in primitive arrays sized from the first
+ * pass's row count. Rows arrive in file order; {@link #toCrossSection} sorts them by security id.
+ */
+final class DateBlock {
+
+    /** Called for each row whose security already has a row at this date. */
+    interface DuplicateListener {
+        void duplicate(int securityId, long firstLine, long line);
+    }
+
+    final int[] ids;
+    final long[] lines;
+    final double[] returns;
+    final double[] marketCaps;
+    final double[][] numbers;
+    final String[][] labels;
+    int size;
+
+    DateBlock(int rows, int numberColumns, int labelColumns) {
+        ids = new int[rows];
+        lines = new long[rows];
+        returns = new double[rows];
+        marketCaps = new double[rows];
+        numbers = new double[numberColumns][rows];
+        labels = new String[labelColumns][rows];
+    }
+
+    boolean isFull() {
+        return size == ids.length;
+    }
+
+    /**
+     * The rows as a cross-section sorted by security id, or null when a security occurs twice (each repeat is
+     * reported to {@code duplicates}).
+     */
+    CrossSection toCrossSection(LocalDate date, String[] numberNames, String[] labelNames,
+                                DuplicateListener duplicates) {
+        int[] order = sortedOrder();
+        if (order != null && reportDuplicates(order, duplicates)) {
+            return null;
+        }
+        Map<String, double[]> numberColumns = new LinkedHashMap<>();
+        for (int c = 0; c < numberNames.length; c++) {
+            numberColumns.put(numberNames[c], permuted(numbers[c], order));
+        }
+        Map<String, String[]> labelColumns = new LinkedHashMap<>();
+        for (int c = 0; c < labelNames.length; c++) {
+            labelColumns.put(labelNames[c], permuted(labels[c], order));
+        }
+        int[] sortedIds = order == null ? ids : Arrays.stream(order).map(i -> ids[i]).toArray();
+        return new CrossSection(date, sortedIds, permuted(returns, order), permuted(marketCaps, order),
+                numberColumns, labelColumns);
+    }
+
+    /** Row indexes by (id, file order), or null when the ids already increase strictly. */
+    private int[] sortedOrder() {
+        boolean increasing = true;
+        for (int i = 1; i < size && increasing; i++) {
+            increasing = ids[i] > ids[i - 1];
+        }
+        if (increasing) {
+            return null;
+        }
+        long[] keys = new long[size];
+        for (int i = 0; i < size; i++) {
+            keys[i] = ((long) ids[i] << 32) | i;
+        }
+        Arrays.sort(keys);
+        int[] order = new int[size];
+        for (int i = 0; i < size; i++) {
+            order[i] = (int) keys[i];
+        }
+        return order;
+    }
+
+    private boolean reportDuplicates(int[] order, DuplicateListener duplicates) {
+        boolean found = false;
+        int first = order[0];
+        for (int k = 1; k < size; k++) {
+            int row = order[k];
+            if (ids[row] == ids[first]) {
+                duplicates.duplicate(ids[row], lines[first], lines[row]);
+                found = true;
+            } else {
+                first = row;
+            }
+        }
+        return found;
+    }
+
+    private static double[] permuted(double[] values, int[] order) {
+        if (order == null) {
+            return values;
+        }
+        double[] out = new double[order.length];
+        for (int i = 0; i < order.length; i++) {
+            out[i] = values[order[i]];
+        }
+        return out;
+    }
+
+    private static String[] permuted(String[] values, int[] order) {
+        if (order == null) {
+            return values;
+        }
+        String[] out = new String[order.length];
+        for (int i = 0; i < order.length; i++) {
+            out[i] = values[order[i]];
+        }
+        return out;
+    }
+}
