@@ -107,6 +107,26 @@ class EvidenceStatisticsTest {
     }
 
     @Test
+    void tradingCostsWorkedByHand() {
+        // Gross returns Jan..Apr 2020: 1%, 2%, -0.5%, 1.5%. Formations at the end of Dec, Jan, Feb, Mar, Apr with
+        // turnover 2 (from an empty book), 0.5, 0.3, 0.4, 0.6.
+        // Whole series: the formations before the last date earn in it: 2 + 0.5 + 0.3 + 0.4 = 3.2 over 4/12 years,
+        // 9.6 a year; break-even = 10,000 x 0.04 / 3.2 = 125 bps.
+        // Feb..Apr: formations from the last date before Feb (Jan 31) on: 0.5 + 0.3 + 0.4 = 1.2 over 3/12 years,
+        // 4.8 a year; gross sum 0.03, break-even = 10,000 x 0.03 / 1.2 = 250 bps.
+        ReturnSeries gross = series(0.01, 0.02, -0.005, 0.015);
+        List<LocalDate> formed = List.of(LocalDate.of(2019, 12, 31), LocalDate.of(2020, 1, 31), LocalDate.of(2020, 2, 29),
+                LocalDate.of(2020, 3, 31), LocalDate.of(2020, 4, 30));
+        double[] turnover = {2.0, 0.5, 0.3, 0.4, 0.6};
+        TradingCosts whole = TradingCosts.of(gross, formed, turnover, gross.date(0), gross.date(3));
+        assertEquals(9.6, whole.averageAnnualTurnover(), 1e-12);
+        assertEquals(125.0, whole.breakEvenCostBps(), 1e-9);
+        TradingCosts late = TradingCosts.of(gross, formed, turnover, gross.date(1), gross.date(3));
+        assertEquals(4.8, late.averageAnnualTurnover(), 1e-12);
+        assertEquals(250.0, late.breakEvenCostBps(), 1e-9);
+    }
+
+    @Test
     void calendarPeriodEndsWorkedFromTheCalendar() {
         // 2021-05-12 is a Wednesday: its ISO week runs Monday 10 to Sunday 16 May; Q2 ends 30 June; 2024 is a leap year.
         LocalDate wednesday = LocalDate.of(2021, 5, 12);
@@ -140,7 +160,7 @@ class EvidenceStatisticsTest {
     private static ReturnSeries series(double... values) {
         LocalDate[] dates = new LocalDate[values.length];
         for (int i = 0; i < values.length; i++) {
-            dates[i] = LocalDate.of(2020, 1, 31).plusMonths(i).withDayOfMonth(1).plusMonths(1).minusDays(1);
+            dates[i] = java.time.YearMonth.of(2020, 1).plusMonths(i).atEndOfMonth();
         }
         return new ReturnSeries(dates, values);
     }
