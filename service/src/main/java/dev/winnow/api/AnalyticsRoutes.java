@@ -10,9 +10,9 @@ import dev.winnow.stats.RollingCorrelation;
 import dev.winnow.stats.RollingSignificance;
 import dev.winnow.stats.Summary;
 import dev.winnow.stats.SummaryStatistics;
+import dev.winnow.stats.TradingCosts;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
-import dev.winnow.store.FactorStore.StoredTurnover;
 import io.javalin.http.Context;
 
 import java.time.LocalDate;
@@ -237,37 +237,16 @@ final class AnalyticsRoutes {
         return out;
     }
 
-    /**
-     * Average annual turnover = sum of turnover over the formations that earn in range / years covered (observations /
-     * periods per year). Break-even cost = the cost in basis points at which the mean net return is zero: with costs
-     * charged once per formation, mean net = mean gross - c/10,000 x (sum of turnover / n), so
-     * c* = 10,000 x mean gross x n / sum of turnover. A formation earns in range when it comes before the last date and
-     * on or after the stored observation just before the first date.
-     */
+    /** Average annual turnover and break-even cost of the requested stretch, as {@link TradingCosts#of} defines them. */
     private Map<String, Object> costFields(FactorVersionRecord v, SeriesRequest.Resolved resolved) {
         Map<String, Object> out = new LinkedHashMap<>();
         if (v.method().equals("external")) {
             return out;
         }
-        ReturnSeries all = factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD);
-        LocalDate first = resolved.series().date(0);
-        LocalDate last = resolved.series().date(resolved.series().size() - 1);
-        ReturnSeries gross = all.between(first, last);
-        ReturnSeries before = all.between(null, first.minusDays(1));
-        LocalDate earliestFormation = before.size() == 0 ? LocalDate.MIN : before.date(before.size() - 1);
-        double totalTurnover = 0;
-        for (StoredTurnover t : factors.turnover(v.factorId(), v.version())) {
-            if (!t.formationDate().isBefore(earliestFormation) && t.formationDate().isBefore(last)) {
-                totalTurnover += t.turnover();
-            }
-        }
-        double sumGross = 0;
-        for (double r : gross.values()) {
-            sumGross += r;
-        }
-        double years = gross.size() / (double) Frequency.fromDates(List.of(all.dates())).periodsPerYear();
-        out.put("average_annual_turnover", years > 0 ? totalTurnover / years : Double.NaN);
-        out.put("break_even_cost_bps", totalTurnover > 0 ? 10_000 * sumGross / totalTurnover : Double.NaN);
+        ReturnSeries range = resolved.series();
+        TradingCosts costs = StoredCosts.of(factors, v, range.date(0), range.date(range.size() - 1));
+        out.put("average_annual_turnover", costs.averageAnnualTurnover());
+        out.put("break_even_cost_bps", costs.breakEvenCostBps());
         return out;
     }
 }

@@ -36,6 +36,7 @@ public final class ApiServer {
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
 
         return Javalin.create(config -> {
@@ -69,6 +70,10 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
+            config.routes.get("/v1/evidence", evidence::table);
+            config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
+            config.routes.get("/v1/themes", evidence::themes);
+            config.routes.get("/v1/themes/{theme}/returns", evidence::themeReturns);
 
             config.routes.get("/v1/loadings", loadings::get);
             config.routes.get("/v1/loadings/{security}", loadings::securityHistory);

@@ -31,8 +31,20 @@ final class Responses {
      * already holds it. The ETag changes whenever the series is rebuilt, extended or revised.
      */
     static boolean notModified(Context ctx, FactorVersionRecord v, boolean csv) {
+        return tagged(ctx, v.factorId() + "." + v.version() + "." + v.dataVersion(), csv);
+    }
+
+    /**
+     * The same for a response computed from several series: {@code dataKey} names every input version and its data
+     * version, so that the ETag changes when any of them changes.
+     */
+    static boolean notModified(Context ctx, String dataKey, boolean csv) {
+        return tagged(ctx, shortHash(dataKey), csv);
+    }
+
+    private static boolean tagged(Context ctx, String data, boolean csv) {
         String query = ctx.queryString() == null ? "" : ctx.queryString();
-        String tag = "\"" + v.factorId() + "." + v.version() + "." + v.dataVersion() + "." + shortHash(ctx.path() + "?" + query + (csv ? "#csv" : "#json")) + "\"";
+        String tag = "\"" + data + "." + shortHash(ctx.path() + "?" + query + (csv ? "#csv" : "#json")) + "\"";
         ctx.header("ETag", tag);
         String ifNoneMatch = ctx.header("If-None-Match");
         if (ifNoneMatch != null) {

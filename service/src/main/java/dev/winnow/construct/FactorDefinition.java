@@ -132,6 +132,12 @@ public record FactorDefinition(
         return key.toString();
     }
 
+    /** The same definition restricted to another universe (all other fields unchanged). */
+    public FactorDefinition withUniverse(Universe value) {
+        return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance, rebalanceMonth,
+                output, riskFree, value, breakpoints, costBps, theme, rationale, foundOn);
+    }
+
     public static Builder builder(Method method) {
         return new Builder(method);
     }
