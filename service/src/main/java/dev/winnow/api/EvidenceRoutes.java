@@ -28,8 +28,13 @@ final class EvidenceRoutes {
         this.themes = new Themes(factors);
     }
 
+    /** {@code risk_free=include} (default: every version is a trial) or {@code exclude} (risk-free rates are not). */
+    private static boolean leaveOutRiskFree(Context ctx) {
+        return Requests.choiceParam(ctx, "risk_free", List.of("include", "exclude"), "include").equals("exclude");
+    }
+
     void table(Context ctx) {
-        Snapshot snapshot = library.snapshot();
+        Snapshot snapshot = library.snapshot(leaveOutRiskFree(ctx));
         List<Map<String, Object>> rows = new ArrayList<>();
         List<Map<String, Object>> excluded = new ArrayList<>();
         for (Trial trial : snapshot.trials()) {
@@ -54,7 +59,7 @@ final class EvidenceRoutes {
         String segment = ctx.queryParam("segment");
         segment = segment == null || segment.isBlank() ? null : segment.trim();
         List<String> against = Requests.listParam(ctx, "against");
-        Snapshot snapshot = library.snapshot();
+        Snapshot snapshot = library.snapshot(leaveOutRiskFree(ctx));
         // versions are never deleted, so the snapshot taken after the lookup holds this one
         Trial trial = snapshot.find(v).orElseThrow();
         List<Trial> regressors = FactorEvidence.against(trial, snapshot, against);

@@ -18,16 +18,20 @@ import java.util.Optional;
 
 /**
  * Every factor version ever built (retired ones included) on the monthly basis, and the library-wide trial table over
- * them. Versions whose status is not ready get an empty series. Two kinds of version are no trial and stay out of the
- * table, each with its reason: quarterly and annual series (they cannot be put on the monthly basis), and the
- * risk-free rate, that is a factor that some definition names as its {@code risk_free}: a rate that every premium is
- * measured against, not a candidate premium (its Sharpe ratio, huge for a near-constant series, would dominate the
- * variance V of the deflated Sharpe ratio). The snapshot is reused until any version's status, data version or
- * retirement changes.
+ * them. Versions whose status is not ready get an empty series. Quarterly and annual series are no trial (they cannot
+ * be put on the monthly basis) and stay out of the table with the reason.
+ *
+ * <p>By default every other version is a trial, as the rule says: every version ever built. That includes a risk-free
+ * rate (a factor some definition names as its {@code risk_free}), whose Sharpe ratio, huge for a near-constant series,
+ * dominates the variance V of the deflated Sharpe ratio. On request ({@code risk_free=exclude}) such rates are left
+ * out of the table with the reason: they are what premia are measured against, not candidate premia. Either way a
+ * risk-free rate is never a default regressor of the spanning regression. Each variant's snapshot is reused until any
+ * version's status, data version or retirement changes.
  */
 final class TrialLibrary {
     private final FactorStore factors;
-    private volatile Snapshot cached;
+    private volatile Snapshot cachedAll;
+    private volatile Snapshot cachedWithoutRiskFree;
 
     TrialLibrary(FactorStore factors) {
         this.factors = factors;
@@ -39,9 +43,10 @@ final class TrialLibrary {
      * @param row          its row of the table; null when it is no trial (see {@link #exclusionReason()})
      * @param note         why its statistics are null (not ready, too short, no variation), or null
      * @param riskFreeOf   a factor whose definition subtracts this one as its risk-free rate, or null
+     * @param riskFreeLeftOut true when the snapshot leaves risk-free rates out of the table
      */
     record Trial(FactorVersionRecord version, FactorDefinition definition, MonthlyBasis basis, TrialRow row, String note,
-                 String riskFreeOf) {
+                 String riskFreeOf, boolean riskFreeLeftOut) {
         String name() {
             return version.name();
         }
@@ -61,7 +66,7 @@ final class TrialLibrary {
 
         /** True when the version is a trial with a row in the table. */
         boolean inTable() {
-            return !excluded() && riskFreeOf == null;
+            return !excluded() && !(riskFreeLeftOut && riskFreeOf != null);
         }
 
         /** Why the version is no trial, or null when it is one. */
@@ -69,7 +74,7 @@ final class TrialLibrary {
             if (excluded()) {
                 return basis.excludedReason();
             }
-            return riskFreeOf == null ? null : "the risk-free rate that factor '" + riskFreeOf
+            return !riskFreeLeftOut || riskFreeOf == null ? null : "the risk-free rate that factor '" + riskFreeOf
                     + "' subtracts: a rate every premium is measured against, not a candidate premium";
         }
 
@@ -99,19 +104,29 @@ final class TrialLibrary {
         }
     }
 
+    /** Every version as a trial, as the rule says. */
     Snapshot snapshot() {
+        return snapshot(false);
+    }
+
+    /** With {@code leaveOutRiskFree}, risk-free rates are listed as excluded instead of counted as trials. */
+    Snapshot snapshot(boolean leaveOutRiskFree) {
         List<FactorVersionRecord> versions = factors.allVersions();
         String key = keyOf(versions);
-        Snapshot current = cached;
+        Snapshot current = leaveOutRiskFree ? cachedWithoutRiskFree : cachedAll;
         if (current != null && current.key().equals(key)) {
             return current;
         }
-        Snapshot fresh = build(key, versions);
-        cached = fresh;
+        Snapshot fresh = build(key, versions, leaveOutRiskFree);
+        if (leaveOutRiskFree) {
+            cachedWithoutRiskFree = fresh;
+        } else {
+            cachedAll = fresh;
+        }
         return fresh;
     }
 
-    private Snapshot build(String key, List<FactorVersionRecord> versions) {
+    private Snapshot build(String key, List<FactorVersionRecord> versions, boolean leaveOutRiskFree) {
         List<FactorDefinition> definitions = versions.stream().map(TrialLibrary::definitionOf).toList();
         Map<String, String> riskFreeOf = new HashMap<>();
         for (int i = 0; i < versions.size(); i++) {
@@ -126,7 +141,8 @@ final class TrialLibrary {
             FactorVersionRecord v = versions.get(i);
             boolean ready = "ready".equals(v.status());
             ReturnSeries series = ready ? factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD) : ReturnSeries.empty();
-            Trial trial = new Trial(v, definitions.get(i), MonthlyBasis.of(series), null, null, riskFreeOf.get(v.name()));
+            Trial trial = new Trial(v, definitions.get(i), MonthlyBasis.of(series), null, null, riskFreeOf.get(v.name()),
+                    leaveOutRiskFree);
             unranked.add(trial);
             if (trial.inTable()) {
                 statistics.add(ready ? TrialStatistics.of(trial.monthly().values()) : TrialStatistics.undefined(0));
@@ -138,7 +154,7 @@ final class TrialLibrary {
         for (Trial t : unranked) {
             TrialRow r = t.inTable() ? table.rows().get(row++) : null;
             trials.add(new Trial(t.version(), t.definition(), t.basis(), r, r == null ? null : noteOf(t.version(), r.statistics()),
-                    t.riskFreeOf()));
+                    t.riskFreeOf(), leaveOutRiskFree));
         }
         return new Snapshot(key, List.copyOf(trials), table);
     }
