@@ -35,9 +35,12 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
                 token == null || token.isBlank() ? null : token);
     }
 
-    /** H2 file store; file locking by the file system so a second process gets a clear error instead of corrupting it. */
+    /**
+     * H2 file store. WRITE_DELAY=0 writes every commit to the file at once (H2 otherwise flushes up to 500 ms later,
+     * so a killed process could lose an acknowledged upload); FILE_LOCK=FS lets a second process fail clearly.
+     */
     public static String defaultH2Url(Path dataDir) {
-        return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS";
+        return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0";
     }
 
     public Path spoolDir() {

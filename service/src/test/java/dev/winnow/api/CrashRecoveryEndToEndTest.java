@@ -3,7 +3,6 @@ package dev.winnow.api;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import org.junit.jupiter.api.AfterEach;
-import org.junit.jupiter.api.Test;
 
 import java.io.IOException;
 import java.net.ServerSocket;
@@ -44,8 +43,10 @@ class CrashRecoveryEndToEndTest {
         }
     }
 
-    @Test
-    void killDuringIngestLosesNothingAndAppliesNothingTwice() throws Exception {
+    /** Kill points: right after the 202 (before the worker starts), early in the parse, late in staging. */
+    @org.junit.jupiter.params.ParameterizedTest(name = "kill at progress > {0}")
+    @org.junit.jupiter.params.provider.ValueSource(doubles = {-1.0, 0.05, 0.6})
+    void killDuringIngestLosesNothingAndAppliesNothingTwice(double killAtProgress) throws Exception {
         dir = Files.createTempDirectory("winnow-crash");
         port = freePort();
         startService();
@@ -63,9 +64,9 @@ class CrashRecoveryEndToEndTest {
         }
         String job = upload(big.toString());
         long deadline = System.nanoTime() + Duration.ofSeconds(60).toNanos();
-        while (true) {
+        while (killAtProgress >= 0) {
             JsonNode state = get("/v1/jobs/" + job);
-            if (state.path("state").asText().equals("running") && state.path("progress").asDouble() > 0.05) {
+            if (state.path("state").asText().equals("running") && state.path("progress").asDouble() > killAtProgress) {
                 break;
             }
             if (state.path("state").asText().equals("succeeded") || System.nanoTime() > deadline) {
@@ -74,6 +75,7 @@ class CrashRecoveryEndToEndTest {
             Thread.sleep(5);
         }
         process.destroyForcibly().waitFor();
+        Files.move(dir.resolve("service.log"), dir.resolve("service-before-kill.log"));
 
         startService();
         JsonNode afterRestart = get("/v1/jobs/" + job);
@@ -133,7 +135,7 @@ class CrashRecoveryEndToEndTest {
             }
             Thread.sleep(20);
         }
-        fail("job " + job + " did not finish");
+        fail("job " + job + " did not finish: " + get("/v1/jobs/" + job) + "\nservice log:\n" + Files.readString(dir.resolve("service.log")));
         return null;
     }
 
