@@ -123,6 +123,7 @@ final class AnalyticsRoutes {
         Correlations.Method method = methodParam(ctx);
         List<ReturnSeries> series = loadAll(ctx, names);
         CorrelationMatrix m = Correlations.matrix(series, method);
+        rejectEmptyOverlap(names, m.observations());
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factors", names);
         out.put("method", method.name().toLowerCase(Locale.ROOT));
@@ -173,6 +174,18 @@ final class AnalyticsRoutes {
             out.add(r.series());
         }
         return out;
+    }
+
+    /** A pair without a single common date is a request that cannot be answered (400), not a null in the matrix. */
+    private static void rejectEmptyOverlap(List<String> names, int[][] observations) {
+        for (int i = 0; i < names.size(); i++) {
+            for (int j = i + 1; j < names.size(); j++) {
+                if (observations[i][j] == 0) {
+                    throw ApiProblem.badRequest("Factors '" + names.get(i) + "' and '" + names.get(j) + "' have no dates in common"
+                            + " in the requested range; leave one of them out or widen 'from'/'to'.");
+                }
+            }
+        }
     }
 
     private static List<String> factorList(Context ctx, int min) {

@@ -118,7 +118,7 @@ public final class LoadingsRoutes {
         PanelRecord panel = panelFromQuery(ctx);
         String kind = Requests.choiceParam(ctx, "kind", List.of("regression", "characteristic"), "regression");
         LocalDate date = Requests.dateParam(ctx, "date");
-        boolean csv = wantsCsv(ctx);
+        boolean csv = Responses.wantsCsv(ctx);
         if (kind.equals("characteristic")) {
             rejectParams(ctx, "kind=characteristic", "factors", "window", "min_obs");
             characteristic(ctx, panel, date != null ? date : panel.lastDate(), csv);
@@ -486,15 +486,6 @@ public final class LoadingsRoutes {
                 throw ApiProblem.badRequest("Query parameter '" + name + "' does not apply to " + what + "; leave it out.");
             }
         }
-    }
-
-    private static boolean wantsCsv(Context ctx) {
-        String format = Requests.choiceParam(ctx, "format", List.of("json", "csv"), null);
-        if (format != null) {
-            return format.equals("csv");
-        }
-        String accept = ctx.header("Accept");
-        return accept != null && accept.contains("text/csv");
     }
 
     private static String loadingsCsv(LoadingsTable table, List<Integer> rows, Map<Integer, String> codes, List<String> factorNames) {
