@@ -105,6 +105,7 @@ final class Bench {
                 report("append job", append);
                 System.out.printf(Locale.ROOT, "append one day (%d rows) to the %d-date panel and extend 10 factors: job %.3f s, peak heap %d MB%n",
                         securities, dates, jobSeconds(append), peakHeap() >> 20);
+                analytics(dates);
                 System.out.printf(Locale.ROOT, "store size on disk: %.0f MB%n", directorySize(store) / 1e6);
                 System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
                         Runtime.getRuntime().maxMemory() >> 20, peakResidentSet());
@@ -114,6 +115,55 @@ final class Bench {
                 files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
             }
         }
+    }
+
+    /**
+     * Uploads 50 external daily series of {@code dates} business days and times, over HTTP, the 50x50 correlation
+     * matrix and rolling significance with a 252-day window (median of 20 requests after 5 warm-up requests).
+     */
+    private void analytics(int dates) throws Exception {
+        java.util.SplittableRandom random = new java.util.SplittableRandom(50);
+        List<String> names = new ArrayList<>();
+        for (int f = 0; f < 50; f++) {
+            String name = "ext" + f;
+            names.add(name);
+            HttpRequest put = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/factors/" + name))
+                    .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "application/json")
+                    .PUT(HttpRequest.BodyPublishers.ofString("{\"method\":\"external\"}")).build();
+            client.send(put, HttpResponse.BodyHandlers.ofString());
+            StringBuilder csv = new StringBuilder("date,return\n");
+            java.time.LocalDate d = java.time.LocalDate.of(2000, 1, 3);
+            for (int t = 0; t < dates; t++) {
+                csv.append(d).append(',').append(String.format(Locale.ROOT, "%.6f", 0.0002 + 0.01 * (random.nextDouble() - 0.5))).append('\n');
+                d = d.getDayOfWeek() == java.time.DayOfWeek.FRIDAY ? d.plusDays(3) : d.plusDays(1);
+            }
+            Path file = Files.createTempFile("series", ".csv");
+            Files.writeString(file, csv);
+            awaitJob(upload("/v1/factors/" + name + "/uploads", file));
+            Files.delete(file);
+        }
+        String matrix = "/v1/correlations?factors=" + String.join(",", names);
+        System.out.printf(Locale.ROOT, "50x50 correlation matrix over %d daily dates: median %.1f ms over HTTP%n", dates, medianMillis(matrix));
+        System.out.printf(Locale.ROOT, "rolling significance, window 252, %d daily dates: median %.1f ms over HTTP%n", dates,
+                medianMillis("/v1/factors/ext0/significance?window=252"));
+    }
+
+    private double medianMillis(String path) throws Exception {
+        double[] times = new double[20];
+        for (int i = -5; i < times.length; i++) {
+            HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + path))
+                    .header("Authorization", "Bearer " + TOKEN).GET().build();
+            long t0 = System.nanoTime();
+            HttpResponse<byte[]> response = client.send(request, HttpResponse.BodyHandlers.ofByteArray());
+            if (response.statusCode() != 200) {
+                throw new IllegalStateException(path + " answered " + response.statusCode());
+            }
+            if (i >= 0) {
+                times[i] = (System.nanoTime() - t0) / 1e6;
+            }
+        }
+        java.util.Arrays.sort(times);
+        return (times[9] + times[10]) / 2;
     }
 
     /** Moves the rows of the file's last date into a file of their own, with the header. */

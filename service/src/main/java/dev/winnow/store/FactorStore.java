@@ -12,6 +12,9 @@ import java.time.LocalDate;
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
 import java.util.ArrayList;
+import java.util.Collections;
+import java.util.LinkedHashMap;
+import java.util.Map;
 import java.util.List;
 import java.util.Optional;
 
@@ -24,7 +27,26 @@ public final class FactorStore {
             (Long) rs.getObject(7, Long.class), rs.getString(8), rs.getLong(9), rs.getString(10),
             rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class));
 
+    private static final int CACHED_SERIES = 64;
+
     private final Jdbi jdbi;
+    /**
+     * Recently read series, each with the data version it was read at; a lookup checks the stored data version first,
+     * so a rebuild, extension or revision (by any process) is never served stale.
+     */
+    private final Map<SeriesKey, CachedSeries> recentSeries = Collections.synchronizedMap(
+            new LinkedHashMap<>(16, 0.75f, true) {
+                @Override
+                protected boolean removeEldestEntry(Map.Entry<SeriesKey, CachedSeries> eldest) {
+                    return size() > CACHED_SERIES;
+                }
+            });
+
+    private record SeriesKey(long factorId, int version, Leg leg) {
+    }
+
+    private record CachedSeries(long dataVersion, ReturnSeries series) {
+    }
 
     public FactorStore(Jdbi jdbi) {
         this.jdbi = jdbi;
@@ -238,6 +260,19 @@ public final class FactorStore {
 
     /** A series of one version: the spread, a leg or the net return, rows where that column is null left out. */
     public ReturnSeries series(long factorId, int version, Leg leg) {
+        long dataVersion = jdbi.withHandle(h -> h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
+                .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L));
+        SeriesKey key = new SeriesKey(factorId, version, leg);
+        CachedSeries cached = recentSeries.get(key);
+        if (cached != null && cached.dataVersion() == dataVersion) {
+            return cached.series();
+        }
+        ReturnSeries series = readSeries(factorId, version, leg);
+        recentSeries.put(key, new CachedSeries(dataVersion, series));
+        return series;
+    }
+
+    private ReturnSeries readSeries(long factorId, int version, Leg leg) {
         List<LocalDate> dates = new ArrayList<>();
         List<Double> values = new ArrayList<>();
         jdbi.useHandle(h -> h.createQuery("SELECT obs_date, " + leg.column + " FROM factor_returns WHERE factor_id = :f AND version = :v "
