@@ -62,13 +62,10 @@ final class FactorRoutes {
                     + "); only method external takes uploaded returns.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("factor", name);
-        params.put("version", v.version());
-        params.put("mode", received.mode());
-        params.put("file", received.spoolPath());
-        params.put("gzip", received.gzip());
-        Accepted.job(ctx, queue.enqueue(JobKinds.SERIES_UPLOAD, params));
+        Map<String, Object> target = new LinkedHashMap<>();
+        target.put("factor", name);
+        target.put("version", v.version());
+        Accepted.job(ctx, queue.enqueue(JobKinds.SERIES_UPLOAD, received.jobParams(target)));
     }
 
     void list(Context ctx) {

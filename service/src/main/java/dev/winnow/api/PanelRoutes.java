@@ -31,12 +31,7 @@ final class PanelRoutes {
             throw ApiProblem.notFound("Panel '" + panel + "' has no data to revise; upload it first without mode=revise.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("panel", panel);
-        params.put("mode", received.mode());
-        params.put("file", received.spoolPath());
-        params.put("gzip", received.gzip());
-        Accepted.job(ctx, queue.enqueue(JobKinds.PANEL_UPLOAD, params));
+        Accepted.job(ctx, queue.enqueue(JobKinds.PANEL_UPLOAD, received.jobParams(Map.of("panel", panel))));
     }
 
     void list(Context ctx) {

@@ -5,7 +5,9 @@ import io.javalin.http.Context;
 
 import java.io.IOException;
 import java.io.UncheckedIOException;
+import java.util.LinkedHashMap;
 import java.util.List;
+import java.util.Map;
 import java.util.Locale;
 
 /** Checks an upload request's headers and spools its body to disk. */
@@ -14,6 +16,14 @@ final class Uploads {
     }
 
     record Received(String spoolPath, boolean gzip, String mode) {
+        /** The upload job's parameters: what the upload is for, then mode, spool file and compression. */
+        Map<String, Object> jobParams(Map<String, Object> target) {
+            Map<String, Object> params = new LinkedHashMap<>(target);
+            params.put("mode", mode);
+            params.put("file", spoolPath);
+            params.put("gzip", gzip);
+            return params;
+        }
     }
 
     static Received receive(Context ctx, UploadSpool spool) {
