@@ -41,6 +41,31 @@ public final class Requests {
         return node.asText();
     }
 
+    /** A body field holding a date yyyy-mm-dd; null when absent or null. */
+    public static LocalDate dateField(JsonNode body, String field) {
+        JsonNode node = body.get(field);
+        if (node == null || node.isNull()) {
+            return null;
+        }
+        try {
+            return LocalDate.parse(node.asText());
+        } catch (DateTimeParseException e) {
+            throw ApiProblem.badRequest("Field '" + field + "' must be a date yyyy-mm-dd, got " + node + ".");
+        }
+    }
+
+    /** A body field holding a whole number from min to max; null when absent or null. */
+    public static Integer intField(JsonNode body, String field, int min, int max) {
+        JsonNode node = body.get(field);
+        if (node == null || node.isNull()) {
+            return null;
+        }
+        if (!node.isIntegralNumber() || !node.canConvertToInt() || node.asInt() < min || node.asInt() > max) {
+            throw ApiProblem.badRequest("Field '" + field + "' must be a whole number from " + min + " to " + max + ", got " + node + ".");
+        }
+        return node.asInt();
+    }
+
     public static LocalDate dateParam(Context ctx, String name) {
         String text = ctx.queryParam(name);
         if (text == null || text.isBlank()) {
@@ -123,6 +148,15 @@ public final class Requests {
             }
         }
         return items;
+    }
+
+    /** Answers 400 when any of the named query parameters is given: they do not apply to {@code what}. */
+    public static void rejectParams(Context ctx, String what, String... names) {
+        for (String name : names) {
+            if (ctx.queryParam(name) != null) {
+                throw ApiProblem.badRequest("Query parameter '" + name + "' does not apply to " + what + "; leave it out.");
+            }
+        }
     }
 
     public static void checkRange(LocalDate from, LocalDate to) {

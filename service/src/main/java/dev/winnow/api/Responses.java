@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.core.io.NumberOutput;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
@@ -8,7 +9,7 @@ import java.time.LocalDate;
 import java.util.HexFormat;
 import java.util.Locale;
 
-/** CSV bodies and conditional GETs. */
+/** CSV bodies, JSON bodies written ahead, and conditional GETs. */
 final class Responses {
     private Responses() {
     }
@@ -82,6 +83,31 @@ final class Responses {
             }
             sb.append('\n');
         }
-        ctx.status(200).contentType("text/csv; charset=utf-8").result(sb.toString());
+        csv(ctx, sb.toString());
+    }
+
+    static void csv(Context ctx, String body) {
+        ctx.status(200).contentType("text/csv; charset=utf-8").result(body);
+    }
+
+    /** A body already encoded as JSON (by a streaming writer, for large answers). */
+    static void json(Context ctx, byte[] body) {
+        ctx.status(200).contentType("application/json").result(body);
+    }
+
+    /** A CSV cell (RFC 4180): quoted when it holds a comma, a quote or a line break; empty for null. */
+    static String csvText(String text) {
+        if (text == null) {
+            return "";
+        }
+        if (text.indexOf(',') < 0 && text.indexOf('"') < 0 && text.indexOf('\n') < 0 && text.indexOf('\r') < 0) {
+            return text;
+        }
+        return '"' + text.replace("\"", "\"\"") + '"';
+    }
+
+    /** A CSV number as the shortest decimal that reads back to the same double; empty when undefined, as JSON writes null. */
+    static String csvNumber(double v) {
+        return Double.isFinite(v) ? NumberOutput.toString(v, true) : "";
     }
 }
