@@ -59,7 +59,6 @@ final class PanelRoutes {
         out.put("rows", p.rowCount());
         out.put("frequency", p.frequency());
         List<Map<String, String>> columns = new ArrayList<>();
-        columns.add(column("date", "date"));
         columns.add(column("security", "label"));
         columns.add(column("return", "number"));
         extraColumns.forEach((name, type) -> columns.add(column(name, type)));
