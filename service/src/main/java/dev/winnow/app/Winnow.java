@@ -3,7 +3,9 @@ package dev.winnow.app;
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
 import dev.winnow.ingest.JobHandler;
+import dev.winnow.ingest.JobKinds;
 import dev.winnow.ingest.JobQueue;
+import dev.winnow.ingest.JsonText;
 import dev.winnow.ingest.JobWorker;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.Database;
@@ -54,6 +56,10 @@ public final class Winnow implements AutoCloseable {
         this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
 
         this.queue = new JobQueue(jobs);
+        int rebuilds = requeueOrphanedBuilds(factors, jobs, queue);
+        if (rebuilds > 0) {
+            LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
+        }
         Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, loadings, spool);
         this.worker = new JobWorker(jobs, handlers);
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool);
@@ -65,6 +71,29 @@ public final class Winnow implements AutoCloseable {
         w.worker.start(w.queue);
         w.http.start();
         return w;
+    }
+
+    /**
+     * A definition is stored before its build job is queued; a crash between the two would leave the version
+     * 'building' for ever. Queues a build for every such version that has no queued build job.
+     */
+    private static int requeueOrphanedBuilds(FactorStore factors, JobStore jobs, JobQueue queue) {
+        java.util.Set<String> queued = new java.util.HashSet<>();
+        for (JobStore.JobRecord job : jobs.queued(JobKinds.FACTOR_BUILD)) {
+            Map<String, Object> params = JsonText.readMap(job.params());
+            queued.add(params.get("factor") + "#" + params.get("version"));
+        }
+        int count = 0;
+        for (FactorStore.FactorVersionRecord v : factors.allVersions()) {
+            if (v.status().equals("building") && !v.method().equals("external") && !queued.contains(v.name() + "#" + v.version())) {
+                Map<String, Object> params = new java.util.LinkedHashMap<>();
+                params.put("factor", v.name());
+                params.put("version", v.version());
+                queue.enqueue(JobKinds.FACTOR_BUILD, params);
+                count++;
+            }
+        }
+        return count;
     }
 
     /**

@@ -47,6 +47,12 @@ public final class JobStore {
                 .setMaxRows(1).map(MAPPER).findFirst());
     }
 
+    /** Queued jobs of one kind, oldest first. */
+    public java.util.List<JobRecord> queued(String kind) {
+        return jdbi.withHandle(h -> h.createQuery("SELECT " + COLUMNS + " FROM jobs WHERE state = 'queued' AND kind = :k ORDER BY id")
+                .bind("k", kind).map(MAPPER).list());
+    }
+
     public void markRunning(long id) {
         jdbi.useHandle(h -> h.createUpdate("UPDATE jobs SET state = 'running', started_at = :now, progress = 0 WHERE id = :id")
                 .bind("id", id).bind("now", now()).execute());
