@@ -44,6 +44,7 @@ public final class ApiServer {
             config.jetty.port = port;
             config.startup.showJavalinBanner = false;
             config.http.maxRequestSize = 1_000_000;
+            config.http.prefer405over404 = true;
 
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));

@@ -82,5 +82,6 @@ class AuthEndToEndTest {
         assertProblem(server.get("/v1/nothing-here"), 404);
         assertProblem(server.get("/v1/jobs/999999"), 404);
         assertProblem(server.get("/v1/jobs/abc"), 404);
+        assertProblem(server.delete("/v1/panels", ADMIN), 405);
     }
 }
