@@ -56,6 +56,10 @@ public final class Winnow implements AutoCloseable {
         this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
 
         this.queue = new JobQueue(jobs);
+        int removed = removeOrphanedSpoolFiles(jobs, spool);
+        if (removed > 0) {
+            LOG.info("removed {} spooled upload(s) that were never acknowledged", removed);
+        }
         int rebuilds = requeueOrphanedBuilds(factors, jobs, queue);
         if (rebuilds > 0) {
             LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
@@ -71,6 +75,20 @@ public final class Winnow implements AutoCloseable {
         w.worker.start(w.queue);
         w.http.start();
         return w;
+    }
+
+    /**
+     * An upload body is spooled before its job is queued and acknowledged; a crash between the two leaves a file no
+     * job refers to. Runs before the server starts, so no upload is in flight.
+     */
+    private static int removeOrphanedSpoolFiles(JobStore jobs, UploadSpool spool) throws IOException {
+        java.util.Set<String> referenced = new java.util.HashSet<>();
+        for (String kind : java.util.List.of(JobKinds.PANEL_UPLOAD, JobKinds.SERIES_UPLOAD)) {
+            for (JobStore.JobRecord job : jobs.queued(kind)) {
+                referenced.add(String.valueOf(JsonText.readMap(job.params()).get("file")));
+            }
+        }
+        return spool.removeUnreferenced(referenced);
     }
 
     /**

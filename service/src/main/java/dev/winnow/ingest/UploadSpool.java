@@ -51,6 +51,23 @@ public final class UploadSpool {
         }
     }
 
+    /** Deletes spool files whose relative path is not in {@code referenced}; returns how many. */
+    public int removeUnreferenced(java.util.Set<String> referenced) throws IOException {
+        if (!Files.isDirectory(dir)) {
+            return 0;
+        }
+        int removed = 0;
+        try (var files = Files.list(dir)) {
+            for (Path file : (Iterable<Path>) files::iterator) {
+                if (!referenced.contains(dataDir.relativize(file).toString())) {
+                    Files.deleteIfExists(file);
+                    removed++;
+                }
+            }
+        }
+        return removed;
+    }
+
     public record Spooled(String relativePath, long size) {
     }
 }

@@ -14,7 +14,7 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 class OrphanedBuildRecoveryTest {
 
     @Test
-    void aVersionLeftBuildingWithoutAJobIsBuiltAfterARestart() throws Exception {
+    void leftoversOfACrashAreRepairedAtTheNextStart() throws Exception {
         try (TestServer server = new TestServer()) {
             server.upload("/v1/panels/p/uploads", "date,security,return,score\n"
                     + "2020-01-31,A,0.01,1\n2020-01-31,B,0.02,2\n2020-02-29,A,0.03,1\n2020-02-29,B,-0.01,2\n");
@@ -24,7 +24,13 @@ class OrphanedBuildRecoveryTest {
                     "{\"method\":\"sort\",\"panel\":\"p\",\"signal\":\"score\",\"buckets\":2}", "sort", panelId);
             assertEquals("building", server.get("/v1/factors/orphan").json().path("status").asText());
 
+            // and a body spooled by an upload that died before its job was queued (never acknowledged)
+            java.nio.file.Path stray = server.dataDir().resolve("spool").resolve("stray.upload");
+            java.nio.file.Files.createDirectories(stray.getParent());
+            java.nio.file.Files.writeString(stray, "date,security,return\n");
+
             server.restart();
+            org.junit.jupiter.api.Assertions.assertFalse(java.nio.file.Files.exists(stray), "the unacknowledged spool file is removed");
             long deadline = System.nanoTime() + 30_000_000_000L;
             String status = "building";
             while (status.equals("building") && System.nanoTime() < deadline) {
