@@ -26,7 +26,8 @@ import java.util.Locale;
 /**
  * The documented benchmark ({@code java -Xmx512m -jar winnow.jar bench [securities] [dates]}): generates a synthetic
  * daily panel, then drives a real service over HTTP on a temporary store and reports ingest rows per second, the build
- * time of one sort factor, the time to append one day to a panel with ten factors, and peak memory.
+ * time of one sort factor, the time to append one day to a panel with ten factors, the time to revise its last five
+ * days, and peak memory.
  * Job times are the worker's own (started to finished); upload times include sending the body over loopback.
  */
 final class Bench {
@@ -105,6 +106,15 @@ final class Bench {
                 report("append job", append);
                 System.out.printf(Locale.ROOT, "append one day (%d rows) to the %d-date panel and extend 10 factors: job %.3f s, peak heap %d MB%n",
                         securities, dates, jobSeconds(append), peakHeap() >> 20);
+
+                Path revision = dir.resolve("revision.csv");
+                writeRevision(panel, appendDay, revision, 5);
+                resetPeaks();
+                JsonNode revise = awaitJob(upload("/v1/panels/bench/uploads?mode=revise", revision));
+                report("revision job", revise);
+                System.out.printf(Locale.ROOT, "revise the last 5 dates (%d rows) of the %d-date panel and bring 10 factors up to date "
+                                + "(resumed from %s): job %.3f s, peak heap %d MB%n", 5L * securities, dates + 1,
+                        revise.path("report").path("factors").get(0).path("rebuilt_from").asText(), jobSeconds(revise), peakHeap() >> 20);
                 analytics(dates);
                 System.out.printf(Locale.ROOT, "store size on disk: %.0f MB%n", directorySize(store) / 1e6);
                 System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
@@ -185,6 +195,45 @@ final class Bench {
             Files.writeString(appendDay, header + "\n" + text.substring(start));
             file.setLength(length - tail + start);
         }
+    }
+
+    /**
+     * Writes a revision of the panel's last {@code count} dates: the last {@code count - 1} dates of the panel file
+     * (read from its tail) and the appended day, every present return raised by one basis point.
+     */
+    private static void writeRevision(Path panel, Path appendDay, Path revision, int count) throws IOException {
+        List<String> appended = Files.readAllLines(appendDay);
+        String header = appended.get(0);
+        List<String> lines = new ArrayList<>();
+        try (RandomAccessFile file = new RandomAccessFile(panel.toFile(), "r")) {
+            long length = file.length();
+            int tail = (int) Math.min(length, count * Files.size(appendDay) + (1 << 20));
+            byte[] bytes = new byte[tail];
+            file.seek(length - tail);
+            file.readFully(bytes);
+            String[] tailLines = new String(bytes, StandardCharsets.UTF_8).split("\n");
+            List<String> tailDates = new ArrayList<>();
+            for (int i = tailLines.length - 1; i > 0; i--) { // the first line may be cut
+                String date = tailLines[i].substring(0, tailLines[i].indexOf(','));
+                if (!tailDates.contains(date)) {
+                    if (tailDates.size() == count - 1) {
+                        break;
+                    }
+                    tailDates.add(date);
+                }
+                lines.add(0, tailLines[i]);
+            }
+        }
+        lines.addAll(appended.subList(1, appended.size()));
+        StringBuilder out = new StringBuilder(header).append('\n');
+        for (String line : lines) {
+            String[] cells = line.split(",", -1);
+            if (!cells[2].isEmpty()) {
+                cells[2] = String.format(Locale.ROOT, "%.8f", Double.parseDouble(cells[2]) + 0.0001);
+            }
+            out.append(String.join(",", cells)).append('\n');
+        }
+        Files.writeString(revision, out);
     }
 
     private String upload(String path, Path file) throws Exception {

@@ -18,7 +18,7 @@ import java.util.Optional;
 /**
  * Job kind {@code panel_upload}: validates and stages the spooled CSV, commits it in one transaction, then brings
  * every live factor on the panel up to date: appended dates extend each factor from its stored engine state, a
- * revision rebuilds it. A job queued again after a crash skips the parse when its upload had already committed.
+ * revision rebuilds it from its last checkpoint before the earliest revised date. A job queued again after a crash skips the parse when its upload had already committed.
  */
 public final class PanelUploadJob implements JobHandler {
     private final PanelStore panels;
@@ -101,7 +101,7 @@ public final class PanelUploadJob implements JobHandler {
         report.put("dates", dates.size());
         report.put("first_date", dates.isEmpty() ? null : dates.get(0));
         report.put("last_date", dates.isEmpty() ? null : dates.get(dates.size() - 1));
-        report.put("factors", updateFactors(panelId, revise));
+        report.put("factors", updateFactors(panelId, revise ? earliest(dates) : null, revise));
         for (PanelChangeListener listener : listeners) {
             report.putAll(listener.afterUpload(panelId, dates, revise));
         }
@@ -109,7 +109,12 @@ public final class PanelUploadJob implements JobHandler {
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
 
-    private List<Map<String, Object>> updateFactors(long panelId, boolean revise) {
+    /** The earliest of the dates, or null (then a revision rebuilds from scratch). */
+    private static LocalDate earliest(List<LocalDate> dates) {
+        return dates.stream().min(LocalDate::compareTo).orElse(null);
+    }
+
+    private List<Map<String, Object>> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
         List<Map<String, Object>> updated = new ArrayList<>();
         for (FactorVersionRecord v : factors.liveOnPanel(panelId)) {
             Map<String, Object> entry = new LinkedHashMap<>();
@@ -117,7 +122,7 @@ public final class PanelUploadJob implements JobHandler {
             entry.put("version", v.version());
             entry.put("action", revise ? "rebuilt" : "extended");
             try {
-                entry.putAll(revise ? builds.rebuild(v) : builds.extend(v));
+                entry.putAll(revise ? builds.rebuildFrom(v, earliestRevised) : builds.extend(v));
             } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
                 factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", e.getMessage())));
                 entry.put("action", "failed");

@@ -16,7 +16,9 @@ import java.util.Map;
 
 /**
  * Job kind {@code series_upload}: an external series (bond, term, credit, macro, risk-free) uploaded as
- * {@code date,return}; all or nothing. Factors that subtract it as their risk-free rate are rebuilt.
+ * {@code date,return}; all or nothing. Factors that subtract it as their risk-free rate are rebuilt from their last
+ * checkpoint before the upload's first date, after an append as well as a revision: an appended risk-free date can
+ * fill market returns that were missing on panel dates already built.
  */
 public final class SeriesUploadJob implements JobHandler {
     private final FactorStore factors;
@@ -66,12 +68,12 @@ public final class SeriesUploadJob implements JobHandler {
         report.put("version", version);
         report.put("mode", revise ? "revise" : "append");
         report.put("dates", rows.size());
-        report.put("factors", rebuildDependents(name));
+        report.put("factors", rebuildDependents(name, series.size() == 0 ? null : series.date(0)));
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
 
-    private List<Map<String, Object>> rebuildDependents(String riskFreeName) {
+    private List<Map<String, Object>> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
         List<Map<String, Object>> rebuilt = new ArrayList<>();
         for (FactorVersionRecord dependent : factors.listCurrent(false)) {
             if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
@@ -85,7 +87,7 @@ public final class SeriesUploadJob implements JobHandler {
             entry.put("factor", dependent.name());
             entry.put("version", dependent.version());
             try {
-                entry.putAll(builds.rebuild(dependent));
+                entry.putAll(builds.rebuildFrom(dependent, earliestChanged));
                 entry.put("action", "rebuilt");
             } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
                 entry.put("action", "failed");

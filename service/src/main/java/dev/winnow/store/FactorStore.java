@@ -27,6 +27,10 @@ public final class FactorStore {
             (Long) rs.getObject(7, Long.class), rs.getString(8), rs.getLong(9), rs.getString(10),
             rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class));
 
+    private static final String CHECKPOINT_COLUMNS = "processed_dates, last_date, observations, periods_without_return, state";
+    private static final RowMapper<StoredCheckpoint> CHECKPOINT = (rs, ctx) -> new StoredCheckpoint(
+            rs.getInt(1), rs.getObject(2, LocalDate.class), rs.getInt(3), rs.getInt(4), rs.getBytes(5));
+
     private static final int CACHED_SERIES = 64;
 
     private final Jdbi jdbi;
@@ -175,36 +179,113 @@ public final class FactorStore {
      */
     public void saveBuild(long factorId, int version, List<StoredReturn> returns, List<StoredTurnover> turnover,
                           byte[] engineState, String reportJson, boolean append, LocalDate replaceFrom) {
+        Replaced replaced = append ? Replaced.NOTHING : replaceFrom == null ? Replaced.EVERYTHING : Replaced.onOrAfter(replaceFrom);
+        saveBuild(factorId, version, new StoredBuild(returns, turnover, List.of(), engineState, reportJson), replaced);
+    }
+
+    /**
+     * The engine state after the first {@code processedDates} grid dates of a build ({@code lastDate} the last of
+     * them), with the build's cumulative counts up to there.
+     */
+    public record StoredCheckpoint(int processedDates, LocalDate lastDate, int observations, int periodsWithoutReturn,
+                                   byte[] state) {
+    }
+
+    /** What a build, extension or revision stores: new rows, new checkpoints, the end state and the report. */
+    public record StoredBuild(List<StoredReturn> returns, List<StoredTurnover> turnover, List<StoredCheckpoint> checkpoints,
+                              byte[] engineState, String reportJson) {
+        public StoredBuild {
+            returns = List.copyOf(returns);
+            turnover = List.copyOf(turnover);
+            checkpoints = List.copyOf(checkpoints);
+        }
+    }
+
+    /**
+     * Which stored rows a build replaces: observations dated on or after {@code returnsFrom}, formations on or after
+     * {@code turnoverFrom}, checkpoints whose last date is on or after {@code checkpointsFrom}; all of them when
+     * {@code everything}, none when the dates are null and {@code everything} is false (an append).
+     */
+    public record Replaced(boolean everything, LocalDate returnsFrom, LocalDate turnoverFrom, LocalDate checkpointsFrom) {
+        public static final Replaced NOTHING = new Replaced(false, null, null, null);
+        public static final Replaced EVERYTHING = new Replaced(true, null, null, null);
+
+        /** Every row dated on or after {@code date}. */
+        public static Replaced onOrAfter(LocalDate date) {
+            return new Replaced(false, date, date, date);
+        }
+
+        /**
+         * What a run resumed from a checkpoint recomputes: observations after its last date, later checkpoints, and
+         * formations dated on or after its last date: the engine decides and emits a formation dated at a grid date
+         * only when it processes the next date, so the resumed run emits the one dated at the checkpoint again.
+         */
+        public static Replaced after(StoredCheckpoint checkpoint) {
+            LocalDate next = checkpoint.lastDate().plusDays(1);
+            return new Replaced(false, next, checkpoint.lastDate(), next);
+        }
+    }
+
+    /**
+     * Stores a build in one transaction: deletes the rows it replaces, inserts its rows and checkpoints, records the
+     * end state and report, marks the version ready and bumps its data version, so series ETags change.
+     */
+    public void saveBuild(long factorId, int version, StoredBuild build, Replaced replaced) {
         jdbi.useTransaction(h -> {
-            if (!append) {
-                String cut = replaceFrom == null ? "" : " AND obs_date >= :from";
-                var del = h.createUpdate("DELETE FROM factor_returns WHERE factor_id = :f AND version = :v" + cut)
-                        .bind("f", factorId).bind("v", version);
-                if (replaceFrom != null) {
-                    del.bind("from", replaceFrom);
-                }
-                del.execute();
-                var delT = h.createUpdate("DELETE FROM factor_turnover WHERE factor_id = :f AND version = :v"
-                                + (replaceFrom == null ? "" : " AND formation_date >= :from"))
-                        .bind("f", factorId).bind("v", version);
-                if (replaceFrom != null) {
-                    delT.bind("from", replaceFrom);
-                }
-                delT.execute();
-            }
-            insertReturns(h, factorId, version, returns);
+            deleteFrom(h, "factor_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
+            deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
+            deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
+            insertReturns(h, factorId, version, build.returns());
             PreparedBatch tb = h.prepareBatch("INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (:f, :v, :d, :t)");
-            for (StoredTurnover t : turnover) {
+            for (StoredTurnover t : build.turnover()) {
                 tb.bind("f", factorId).bind("v", version).bind("d", t.formationDate()).bind("t", t.turnover()).add();
             }
-            if (!turnover.isEmpty()) {
+            if (!build.turnover().isEmpty()) {
                 tb.execute();
+            }
+            PreparedBatch cb = h.prepareBatch("INSERT INTO factor_checkpoints (factor_id, version, processed_dates, last_date, "
+                    + "observations, periods_without_return, state) VALUES (:f, :v, :n, :d, :o, :m, :s)");
+            for (StoredCheckpoint c : build.checkpoints()) {
+                cb.bind("f", factorId).bind("v", version).bind("n", c.processedDates()).bind("d", c.lastDate())
+                        .bind("o", c.observations()).bind("m", c.periodsWithoutReturn()).bind("s", c.state()).add();
+            }
+            if (!build.checkpoints().isEmpty()) {
+                cb.execute();
             }
             h.createUpdate("UPDATE factor_versions SET status = 'ready', data_version = data_version + 1, engine_state = :s, "
                             + "build_report = :r, built_at = :now WHERE factor_id = :f AND version = :v")
-                    .bind("s", engineState).bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
+                    .bind("s", build.engineState()).bind("r", build.reportJson()).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .bind("f", factorId).bind("v", version).execute();
         });
+    }
+
+    /** Deletes a version's rows of a table: all of them, those dated on or after {@code from}, or none (from null). */
+    private static void deleteFrom(Handle h, String table, String dateColumn, long factorId, int version,
+                                   boolean all, LocalDate from) {
+        if (!all && from == null) {
+            return;
+        }
+        var delete = h.createUpdate("DELETE FROM " + table + " WHERE factor_id = :f AND version = :v"
+                        + (all ? "" : " AND " + dateColumn + " >= :from"))
+                .bind("f", factorId).bind("v", version);
+        if (!all) {
+            delete.bind("from", from);
+        }
+        delete.execute();
+    }
+
+    /** The latest checkpoint of a version whose last date is before {@code date}, if any. */
+    public Optional<StoredCheckpoint> latestCheckpointBefore(long factorId, int version, LocalDate date) {
+        return jdbi.withHandle(h -> h.createQuery("SELECT " + CHECKPOINT_COLUMNS + " FROM factor_checkpoints "
+                        + "WHERE factor_id = :f AND version = :v AND last_date < :d ORDER BY processed_dates DESC FETCH FIRST 1 ROWS ONLY")
+                .bind("f", factorId).bind("v", version).bind("d", date).map(CHECKPOINT).findOne());
+    }
+
+    /** All checkpoints of a version, in grid order. */
+    public List<StoredCheckpoint> checkpoints(long factorId, int version) {
+        return jdbi.withHandle(h -> h.createQuery("SELECT " + CHECKPOINT_COLUMNS + " FROM factor_checkpoints "
+                        + "WHERE factor_id = :f AND version = :v ORDER BY processed_dates")
+                .bind("f", factorId).bind("v", version).map(CHECKPOINT).list());
     }
 
     /**

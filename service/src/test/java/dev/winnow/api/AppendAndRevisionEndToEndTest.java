@@ -14,11 +14,13 @@ import java.util.Random;
 import static dev.winnow.api.TestServer.ADMIN;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertNotEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 /**
  * A panel uploaded in pieces, extended date by date and then revised gives, for every method and calendar, exactly the
  * series (spread, legs, net, turnover) of the corrected panel built at once: compared as JSON text, which prints each
- * double's shortest round-trip decimal, so equal text means equal bits.
+ * double's shortest round-trip decimal, so equal text means equal bits. A late revision of a long panel recomputes
+ * only the dates after the last checkpoint before it, with the same outcome.
  */
 class AppendAndRevisionEndToEndTest {
     static final String[] DEFINITIONS = {
@@ -39,15 +41,8 @@ class AppendAndRevisionEndToEndTest {
         Random random = new Random(20211);
         List<String[]> rows = panelRows(dates, 24, random);
         int revisedDate = 70;
-        List<String[]> corrected = new ArrayList<>();
-        for (String[] row : rows) {
-            String[] copy = row.clone();
-            if (copy[0].equals(dates.get(revisedDate).toString())) {
-                copy[2] = copy[2].isEmpty() ? "0.001" : String.format(Locale.ROOT, "%.6f", Double.parseDouble(copy[2]) + 0.01);
-            }
-            corrected.add(copy);
-        }
-        String rf = riskFree(dates);
+        List<String[]> corrected = corrected(rows, dates.get(revisedDate));
+        String rf = riskFree(dates, -1);
 
         try (TestServer atOnce = new TestServer(); TestServer pieces = new TestServer()) {
             // all at once, corrected data
@@ -75,17 +70,79 @@ class AppendAndRevisionEndToEndTest {
             assertNotEquals(etagBefore, pieces.get("/v1/factors/f0/returns").header("ETag"), "a revision changes the series ETag");
 
             assertEquals(atOnce.get("/v1/panels/p").json().path("rows"), pieces.get("/v1/panels/p").json().path("rows"));
-            for (int i = 0; i < DEFINITIONS.length; i++) {
-                String f = "/v1/factors/f" + i;
-                for (String query : new String[] {"/returns", "/returns?leg=long", "/returns?leg=short", "/returns?net=true", "/turnover"}) {
-                    String expected = atOnce.get(f + query).body();
-                    assertEquals(expected, pieces.get(f + query).body(), "f" + i + query + " " + DEFINITIONS[i]);
-                }
-                JsonNode observations = atOnce.get(f).json().path("observations");
-                org.junit.jupiter.api.Assertions.assertTrue(observations.asInt() >= 20, "f" + i + " has too few observations to test: " + observations);
-                assertEquals(observations, pieces.get(f).json().path("observations"));
-            }
+            assertSameSeries(atOnce, pieces);
         }
+    }
+
+    /**
+     * A revision near the end of a panel longer than two checkpoint segments (252 dates each) resumes every factor
+     * from the checkpoint after 504 dates and recomputes only the tail; so does a revision of the risk-free series for
+     * the factor that subtracts it. The series still equal those of a server that got the corrected data at once.
+     */
+    @Test
+    void aLateRevisionOfALongPanelRecomputesOnlyTheTail() throws Exception {
+        List<LocalDate> dates = businessDays(LocalDate.of(2018, 1, 1), 600);
+        List<String[]> rows = panelRows(dates, 12, new Random(20180));
+        int revisedDate = 560;
+        int revisedRiskFree = 580;
+        String resumedFrom = dates.get(503).toString();
+        try (TestServer atOnce = new TestServer(); TestServer pieces = new TestServer()) {
+            setUpRiskFree(atOnce, riskFree(dates, revisedRiskFree));
+            assertEquals("succeeded", atOnce.upload("/v1/panels/p/uploads", csv(corrected(rows, dates.get(revisedDate)), 0, dates.size(), dates))
+                    .path("state").asText());
+            defineAll(atOnce);
+
+            setUpRiskFree(pieces, riskFree(dates, -1));
+            assertEquals("succeeded", pieces.upload("/v1/panels/p/uploads", csv(rows, 0, dates.size(), dates)).path("state").asText());
+            defineAll(pieces);
+            JsonNode revision = pieces.upload("/v1/panels/p/uploads?mode=revise",
+                    csv(corrected(rows, dates.get(revisedDate)), revisedDate, revisedDate + 1, dates));
+            assertEquals("succeeded", revision.path("state").asText(), revision.toString());
+            JsonNode factors = revision.path("report").path("factors");
+            assertEquals(DEFINITIONS.length, factors.size(), revision.toString());
+            for (JsonNode f : factors) {
+                assertEquals("rebuilt", f.path("action").asText(), f.toString());
+                assertEquals(resumedFrom, f.path("rebuilt_from").asText(), f.toString());
+                assertEquals(dates.size() - 504, f.path("recomputed_dates").asInt(), f.toString());
+                assertTrue(f.path("new_observations").asInt() <= dates.size() - 504, f.toString());
+            }
+
+            String rfRevision = "date,return\n" + dates.get(revisedRiskFree) + "," + riskFreeValue(revisedRiskFree, revisedRiskFree) + "\n";
+            JsonNode rfJob = pieces.upload("/v1/factors/rf/uploads?mode=revise", rfRevision);
+            assertEquals("succeeded", rfJob.path("state").asText(), rfJob.toString());
+            JsonNode dependents = rfJob.path("report").path("factors");
+            assertEquals(1, dependents.size(), rfJob.toString());
+            assertEquals("f6", dependents.get(0).path("factor").asText());
+            assertEquals(resumedFrom, dependents.get(0).path("rebuilt_from").asText(), rfJob.toString());
+
+            assertSameSeries(atOnce, pieces);
+        }
+    }
+
+    /** Every factor's spread, legs, net and turnover as JSON text, and its observation count, on both servers. */
+    private static void assertSameSeries(TestServer expected, TestServer actual) {
+        for (int i = 0; i < DEFINITIONS.length; i++) {
+            String f = "/v1/factors/f" + i;
+            for (String query : new String[] {"/returns", "/returns?leg=long", "/returns?leg=short", "/returns?net=true", "/turnover"}) {
+                assertEquals(expected.get(f + query).body(), actual.get(f + query).body(), "f" + i + query + " " + DEFINITIONS[i]);
+            }
+            JsonNode observations = expected.get(f).json().path("observations");
+            assertTrue(observations.asInt() >= 20, "f" + i + " has too few observations to test: " + observations);
+            assertEquals(observations, actual.get(f).json().path("observations"));
+        }
+    }
+
+    /** The rows with the returns of one date corrected (missing ones filled). */
+    private static List<String[]> corrected(List<String[]> rows, LocalDate date) {
+        List<String[]> corrected = new ArrayList<>();
+        for (String[] row : rows) {
+            String[] copy = row.clone();
+            if (copy[0].equals(date.toString())) {
+                copy[2] = copy[2].isEmpty() ? "0.001" : String.format(Locale.ROOT, "%.6f", Double.parseDouble(copy[2]) + 0.01);
+            }
+            corrected.add(copy);
+        }
+        return corrected;
     }
 
     private static void defineAll(TestServer server) {
@@ -142,14 +199,19 @@ class AppendAndRevisionEndToEndTest {
         return sb.toString();
     }
 
-    private static String riskFree(List<LocalDate> dates) {
+    /** The risk-free series, its value at date {@code corrected} (or none, -1) corrected. */
+    private static String riskFree(List<LocalDate> dates, int corrected) {
         StringBuilder sb = new StringBuilder("date,return\n");
         for (int t = 0; t < dates.size(); t++) {
             if (t != 33) { // one date without a risk-free return: the market factor has none there
-                sb.append(dates.get(t)).append(',').append(String.format(Locale.ROOT, "%.7f", 0.0001 + 0.000001 * (t % 9))).append('\n');
+                sb.append(dates.get(t)).append(',').append(riskFreeValue(t, corrected)).append('\n');
             }
         }
         return sb.toString();
+    }
+
+    private static String riskFreeValue(int t, int corrected) {
+        return String.format(Locale.ROOT, "%.7f", t == corrected ? 0.0004 : 0.0001 + 0.000001 * (t % 9));
     }
 
     private static List<LocalDate> businessDays(LocalDate start, int n) {

@@ -36,18 +36,9 @@ class ConstructionFixtureTest {
 
     @BeforeAll
     static void load() {
-        panel = PanelCsv.read(DIR + "construction_panel.csv", List.of("bm", "score"), List.of("sector", "listing"));
-        List<String[]> rf = PanelCsv.readRows(DIR + "construction_riskfree.csv");
-        LocalDate[] dates = new LocalDate[rf.size() - 1];
-        double[] values = new double[rf.size() - 1];
-        for (int i = 1; i < rf.size(); i++) {
-            dates[i - 1] = LocalDate.parse(rf.get(i)[0]);
-            values[i - 1] = Double.parseDouble(rf.get(i)[1]);
-        }
-        riskFree = new ReturnSeries(dates, values);
-        for (String[] row : PanelCsv.readRows(DIR + "construction_definitions.csv").subList(1, 23)) {
-            DEFINITIONS.put(row[0], DefinitionSpec.parse("fixture", row[1]));
-        }
+        panel = ConstructionFixtures.panel();
+        riskFree = ConstructionFixtures.riskFree();
+        DEFINITIONS.putAll(ConstructionFixtures.definitions());
         List<String[]> expected = PanelCsv.readRows(DIR + "construction_expected.csv");
         for (String[] row : expected.subList(1, expected.size())) {
             EXPECTED.computeIfAbsent(row[0], k -> new ArrayList<>()).add(row);
