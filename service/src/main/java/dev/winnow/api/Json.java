@@ -7,6 +7,7 @@ import com.fasterxml.jackson.databind.ObjectMapper;
 import com.fasterxml.jackson.databind.SerializerProvider;
 import com.fasterxml.jackson.databind.module.SimpleModule;
 import com.fasterxml.jackson.databind.ser.std.StdSerializer;
+import com.fasterxml.jackson.databind.ser.std.ToStringSerializer;
 import io.javalin.http.Context;
 
 import java.io.IOException;
@@ -28,7 +29,7 @@ public final class Json {
         module.addSerializer(Double.class, new FiniteDoubleSerializer());
         module.addSerializer(double.class, new FiniteDoubleSerializer());
         module.addSerializer(double[].class, new FiniteDoubleArraySerializer());
-        module.addSerializer(LocalDate.class, new ToStringSerializer<>(LocalDate.class));
+        module.addSerializer(LocalDate.class, ToStringSerializer.instance);
         module.addSerializer(OffsetDateTime.class, new TimestampSerializer());
         return new ObjectMapper()
                 .registerModule(module)
@@ -128,17 +129,6 @@ public final class Json {
         @Override
         public void serialize(OffsetDateTime value, JsonGenerator gen, SerializerProvider provider) throws IOException {
             gen.writeString(FORMAT.format(value.withOffsetSameInstant(java.time.ZoneOffset.UTC)));
-        }
-    }
-
-    private static final class ToStringSerializer<T> extends StdSerializer<T> {
-        ToStringSerializer(Class<T> type) {
-            super(type);
-        }
-
-        @Override
-        public void serialize(T value, JsonGenerator gen, SerializerProvider provider) throws IOException {
-            gen.writeString(value.toString());
         }
     }
 }

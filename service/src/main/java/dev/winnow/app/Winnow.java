@@ -27,7 +27,6 @@ import java.util.Map;
 public final class Winnow implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Winnow.class);
 
-    private final Config config;
     private final Database database;
     private final Jdbi jdbi;
     private final JobWorker worker;
@@ -37,7 +36,6 @@ public final class Winnow implements AutoCloseable {
     private final DemoLoader demo;
 
     private Winnow(Config config) throws IOException {
-        this.config = config;
         Files.createDirectories(config.dataDir());
         this.database = Database.open(config.dbUrl());
         this.jdbi = database.jdbi();
@@ -148,10 +146,6 @@ public final class Winnow implements AutoCloseable {
 
     public int port() {
         return http.port();
-    }
-
-    public Config config() {
-        return config;
     }
 
     public Jdbi jdbi() {

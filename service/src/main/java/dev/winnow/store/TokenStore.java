@@ -5,7 +5,6 @@ import org.jdbi.v3.core.Jdbi;
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
 import java.util.List;
-import java.util.Optional;
 
 /** API tokens: only SHA-256 hashes are stored. */
 public final class TokenStore {
@@ -23,10 +22,6 @@ public final class TokenStore {
                 .map((rs, ctx) -> new TokenRecord(rs.getString(1), rs.getString(2), rs.getString(3),
                         rs.getObject(4, OffsetDateTime.class)))
                 .list());
-    }
-
-    public Optional<TokenRecord> find(String name) {
-        return all().stream().filter(t -> t.name().equals(name)).findFirst();
     }
 
     /** Inserts a token; false when the name is taken. */
