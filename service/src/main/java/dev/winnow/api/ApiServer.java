@@ -8,6 +8,7 @@ import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.InvalidRequestException;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.research.UnknownNameException;
@@ -33,7 +34,7 @@ public final class ApiServer {
     /** What the handlers need, each wired once by the application. */
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
-                               Breadth breadth, Themes themes, LoadingsService loadings) {
+                               Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals) {
     }
 
     private ApiServer() {
@@ -49,6 +50,7 @@ public final class ApiServer {
         ChartRoutes charts = new ChartRoutes(d.factors());
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
+        SignalRoutes signals = new SignalRoutes(d.signals());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -69,6 +71,7 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/uploads", panels::upload);
             config.routes.get("/v1/panels", panels::list);
             config.routes.get("/v1/panels/{panel}", panels::get);
+            config.routes.get("/v1/panels/{panel}/signals", signals::values);
 
             config.routes.put("/v1/factors/{factor}", factors::define);
             config.routes.get("/v1/factors", factors::list);
@@ -112,6 +115,10 @@ public final class ApiServer {
         config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
+        config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
+                e.getMessage(), messages(e.problems())));
+        config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
+                e.getMessage(), java.util.List.of()));
         config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                 detailOf(e, ctx), java.util.List.of()));
         config.routes.exception(Exception.class, (e, ctx) -> {
@@ -129,6 +136,15 @@ public final class ApiServer {
                 problem(ctx, 405, "Method not allowed", "Method " + ctx.method() + " is not allowed on " + ctx.path() + ".", java.util.List.of());
             }
         });
+    }
+
+    /** Problem sentences as the {@code errors} list of a problem body. */
+    private static java.util.List<Map<String, Object>> messages(java.util.List<String> problems) {
+        java.util.List<Map<String, Object>> errors = new java.util.ArrayList<>();
+        for (String p : problems) {
+            errors.add(Map.of("message", p));
+        }
+        return errors;
     }
 
     private static boolean isProblem(Context ctx) {

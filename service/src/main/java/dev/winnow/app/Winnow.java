@@ -13,6 +13,7 @@ import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
@@ -79,7 +80,7 @@ public final class Winnow implements AutoCloseable {
         Breadth breadth = new Breadth(panels, factors);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
-                new LoadingsService(panels, factors, loadings, queue)), config.bind(), config.port());
+                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors)), config.bind(), config.port());
     }
 
     public static Winnow start(Config config) throws IOException {
