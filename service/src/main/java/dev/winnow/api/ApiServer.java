@@ -6,6 +6,7 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorageFaults;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
 import io.javalin.http.Context;
@@ -23,7 +24,7 @@ public final class ApiServer {
 
     /** What the handlers need. */
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors,
-                               LoadingsStore loadings, JobQueue queue, UploadSpool spool) {
+                               LoadingsStore loadings, JobQueue queue, UploadSpool spool, Health.Check health) {
     }
 
     private ApiServer() {
@@ -47,7 +48,10 @@ public final class ApiServer {
             config.http.prefer405over404 = true;
 
             config.routes.before(auth::check);
-            config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/health", ctx -> {
+                Health health = d.health().now();
+                Json.respond(ctx, health.serving() ? 200 : 503, health);
+            });
 
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
@@ -84,9 +88,23 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
+            config.routes.exception(UploadSpool.UploadTooLargeException.class, (e, ctx) -> problem(ctx, 413, "Content too large",
+                    e.getMessage(), java.util.List.of()));
+            config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
+                    e.getMessage(), java.util.List.of()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                     detailOf(e, ctx), java.util.List.of()));
             config.routes.exception(Exception.class, (e, ctx) -> {
+                if (StorageFaults.isStorageFault(e)) {
+                    LOG.error("storage fault on {} {}", ctx.method(), ctx.path(), e);
+                    boolean full = StorageFaults.isDiskFull(e);
+                    ctx.header("Retry-After", "30");
+                    problem(ctx, full ? 507 : 503, full ? "Insufficient storage" : "Service unavailable",
+                            (full ? "The disk holding the store is full" : "The store cannot be used right now")
+                                    + "; nothing was changed by this request. Try again once the operator has fixed the "
+                                    + "storage (GET /health tells when the store is back).", java.util.List.of());
+                    return;
+                }
                 LOG.error("unexpected error on {} {}", ctx.method(), ctx.path(), e);
                 problem(ctx, 500, "Internal server error", "The server failed while handling this request; the error was logged. "
                         + "Nothing was changed by it unless a job id was returned.", java.util.List.of());

@@ -27,16 +27,24 @@ public final class TestServer implements AutoCloseable {
     private static final ObjectMapper MAPPER = new ObjectMapper();
 
     private final Path dir;
+    private final dev.winnow.store.Limits limits;
     private Winnow winnow;
     private final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     public TestServer() throws IOException {
-        this.dir = Files.createTempDirectory("winnow-test");
+        // no free-space floor: the tests' uploads must not depend on how full the machine's disk is
+        this(Files.createTempDirectory("winnow-test"), new dev.winnow.store.Limits(dev.winnow.store.Limits.DEFAULTS.maxUploadBytes(), 0));
+    }
+
+    /** A server on the given data directory with the given limits (tests of limits and storage faults). */
+    public TestServer(Path dir, dev.winnow.store.Limits limits) throws IOException {
+        this.dir = dir;
+        this.limits = limits;
         start();
     }
 
     public void start() throws IOException {
-        Config config = new Config(0, "127.0.0.1", dir, Config.defaultH2Url(dir), ADMIN);
+        Config config = new Config(0, "127.0.0.1", dir, Config.defaultH2Url(dir), ADMIN, limits);
         winnow = Winnow.start(config);
     }
 
