@@ -50,6 +50,7 @@ class FullDiskEndToEndTest {
 
     @Test
     void anIngestThatFillsTheDiskFailsCleanlyAndTheWorkerCarriesOnOnceSpaceIsBack() throws Exception {
+        Assumptions.assumeFalse(dev.winnow.store.TestDatabase.onPostgres(), "full-disk test skipped: the store is on PostgreSQL, not in the data directory");
         mount = Files.createTempDirectory("winnow-fulldisk");
         String why = mountSmallFileSystem();
         Assumptions.assumeTrue(why == null, "full-disk test skipped: " + why);
