@@ -6,6 +6,7 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorageFaultLog;
 import dev.winnow.store.StorageFaults;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
@@ -101,7 +102,7 @@ public final class ApiServer {
                     detailOf(e, ctx), java.util.List.of()));
             config.routes.exception(Exception.class, (e, ctx) -> {
                 if (StorageFaults.isStorageFault(e)) {
-                    LOG.error("storage fault on {} {}", ctx.method(), ctx.path(), e);
+                    StorageFaultLog.note(LOG, ctx.method() + " " + ctx.path(), e);
                     boolean full = StorageFaults.isDiskFull(e);
                     ctx.header("Retry-After", "30");
                     problem(ctx, full ? 507 : 503, full ? "Insufficient storage" : "Service unavailable",
