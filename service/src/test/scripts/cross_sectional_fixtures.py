@@ -160,7 +160,12 @@ def monotonicity_fixture():
     return out
 
 
-for name, payload in [("fama_macbeth.json", fama_macbeth_fixture()), ("grs.json", grs_fixture()),
-                      ("monotonicity.json", monotonicity_fixture())]:
-    (FIXTURES / name).write_text(json.dumps(payload, indent=1) + "\n")
-    print("wrote", FIXTURES / name)
+def main():
+    for name, payload in [("fama_macbeth.json", fama_macbeth_fixture()), ("grs.json", grs_fixture()),
+                          ("monotonicity.json", monotonicity_fixture())]:
+        (FIXTURES / name).write_text(json.dumps(payload, indent=1) + "\n")
+        print("wrote", FIXTURES / name)
+
+
+if __name__ == "__main__":
+    main()

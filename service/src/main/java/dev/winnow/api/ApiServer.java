@@ -1,6 +1,11 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.JobQueue;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InvalidStudyException;
+import dev.winnow.research.ModelTests;
+import dev.winnow.research.SeriesNames;
+import dev.winnow.stats.InsufficientDataException;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
@@ -38,6 +43,8 @@ public final class ApiServer {
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
+        SeriesNames seriesNames = new SeriesNames(d.factors());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(new FamaMacBethStudy(d.panels()), new ModelTests(seriesNames));
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -83,6 +90,11 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
+            config.routes.get("/v1/model-tests", crossSection::modelTests);
+
+            config.routes.exception(InvalidStudyException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+            config.routes.exception(InsufficientDataException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                     detailOf(e, ctx), java.util.List.of()));

@@ -5,6 +5,7 @@ import org.apache.commons.math3.linear.DecompositionSolver;
 import org.apache.commons.math3.linear.LUDecomposition;
 import org.apache.commons.math3.special.Beta;
 
+import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.List;
 
@@ -64,6 +65,46 @@ public final class FactorModelTest {
         }
     }
 
+    /** A test on the common periods of return series: the first and last of them, and the result. */
+    public record OnSeries(LocalDate first, LocalDate last, Result result) {
+    }
+
+    /**
+     * The test on the dates every asset, every factor and the risk-free series (when not null) have; each asset's
+     * excess return is its return minus the risk-free return of that date, factors are taken as given.
+     *
+     * @throws InsufficientDataException when there are not more than N + L such dates, or a covariance is singular
+     */
+    public static OnSeries ofSeries(List<ReturnSeries> assets, List<ReturnSeries> factors, ReturnSeries riskFree) {
+        AnalyticsChecks.notNull(assets, "assets");
+        AnalyticsChecks.notNull(factors, "factors");
+        List<ReturnSeries> all = new ArrayList<>(assets);
+        all.addAll(factors);
+        if (riskFree != null) {
+            all.add(riskFree);
+        }
+        CommonDates common = CommonDates.of(all);
+        int n = assets.size();
+        int l = factors.size();
+        double[][] excess = new double[n][];
+        for (int i = 0; i < n; i++) {
+            excess[i] = common.values()[i].clone();
+            if (riskFree != null) {
+                double[] rf = common.values()[n + l];
+                for (int t = 0; t < excess[i].length; t++) {
+                    excess[i][t] -= rf[t];
+                }
+            }
+        }
+        double[][] factorColumns = new double[l][];
+        for (int j = 0; j < l; j++) {
+            factorColumns[j] = common.values()[n + j];
+        }
+        Result result = of(excess, factorColumns); // checks T > N + L first
+
+        return new OnSeries(common.dates()[0], common.dates()[common.size() - 1], result);
+    }
+
     /**
      * @param assets  N excess-return columns of length T (finite, aligned)
      * @param factors L factor columns of length T (finite, aligned)
@@ -87,7 +128,8 @@ public final class FactorModelTest {
             }
         }
         if (t <= n + l) {
-            throw new IllegalArgumentException("the test needs more than N + L = " + (n + l) + " periods, got " + t);
+            throw new InsufficientDataException("The test of " + n + " assets on " + l + " factors needs more than N + L = "
+                    + (n + l) + " common months, and there are " + t + "; widen 'from'/'to' or use fewer assets or factors.");
         }
         int lags = NeweyWest.automaticLags(t);
         double[] alphas = new double[n];
@@ -98,7 +140,7 @@ public final class FactorModelTest {
         for (int i = 0; i < n; i++) {
             RegressionResult fit = LinearRegression.fit(factors, assets[i]);
             if (Double.isNaN(fit.alpha())) {
-                throw new IllegalArgumentException("the factors are collinear over these periods; drop one of them");
+                throw new InsufficientDataException("The factors are collinear over these months (their covariance is singular); drop one of the factors.");
             }
             double nwT = LinearRegression.neweyWestAlphaT(factors, assets[i], lags);
             regressions.add(new AssetRegression(fit.alpha(), fit.alphaT(), nwT, fit.betas(), fit.rSquared(), fit.residualStdev()));
@@ -113,10 +155,10 @@ public final class FactorModelTest {
             mu[j] = WindowMoments.mean(factors[j], 0, t);
         }
         double[][] factorCov = covariance(factors, true);
-        double alphaForm = quadraticForm(residualCov, alphas, "the residual covariance of the assets is singular"
-                + " (an asset is a combination of the others and the factors); drop one of the assets");
-        double muForm = quadraticForm(factorCov, mu, "the factor covariance is singular (a factor is constant or a"
-                + " combination of the others); drop one of the factors");
+        double alphaForm = quadraticForm(residualCov, alphas, "The residual covariance of the assets is singular"
+                + " (an asset is a combination of the others and the factors); drop one of the assets.");
+        double muForm = quadraticForm(factorCov, mu, "The factor covariance is singular (a factor is constant or a"
+                + " combination of the others); drop one of the factors.");
         int d2 = t - n - l;
         double grs = (d2 / (double) n) * alphaForm / (1.0 + muForm);
         double p = grs <= 0 ? 1.0 : Beta.regularizedBeta(d2 / (d2 + n * grs), d2 / 2.0, n / 2.0);
@@ -154,7 +196,7 @@ public final class FactorModelTest {
         double[] scale = new double[m];
         for (int a = 0; a < m; a++) {
             if (!(matrix[a][a] > 0)) {
-                throw new IllegalArgumentException(singularMessage);
+                throw new InsufficientDataException(singularMessage);
             }
             scale[a] = Math.sqrt(matrix[a][a]);
         }
@@ -168,7 +210,7 @@ public final class FactorModelTest {
         }
         DecompositionSolver solver = new LUDecomposition(new Array2DRowRealMatrix(unit, false), SINGULARITY).getSolver();
         if (!solver.isNonSingular()) {
-            throw new IllegalArgumentException(singularMessage);
+            throw new InsufficientDataException(singularMessage);
         }
         double[] x = solver.solve(new org.apache.commons.math3.linear.ArrayRealVector(w, false)).toArray();
         double form = 0.0;
@@ -176,7 +218,7 @@ public final class FactorModelTest {
             form += w[a] * x[a];
         }
         if (!Double.isFinite(form)) {
-            throw new IllegalArgumentException(singularMessage);
+            throw new InsufficientDataException(singularMessage);
         }
         return form;
     }
