@@ -41,6 +41,7 @@ public final class ApiServer {
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        ChartRoutes charts = new ChartRoutes(d.factors());
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
         SeriesNames seriesNames = new SeriesNames(d.factors());
@@ -78,6 +79,10 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
+            config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
+            config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
+            config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
             config.routes.get("/v1/themes", evidence::themes);
