@@ -15,9 +15,8 @@ final class Eligibility {
     private Eligibility() {
     }
 
-    /** Eligible row indices of {@code xs}, increasing. */
-    static int[] eligibleRows(FactorDefinition def, CrossSection xs) {
-        double[] signal = def.method() == Method.MARKET ? null : xs.numberColumn(def.signal());
+    /** Eligible row indices of {@code xs}, increasing; {@code signal} aligned with its rows (null: no signal needed). */
+    static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal) {
         boolean needsCap = def.method() != Method.SORT || def.effectiveWeighting() == Weighting.CAP;
         return rows(def.effectiveUniverse(), xs, signal, needsCap);
     }
