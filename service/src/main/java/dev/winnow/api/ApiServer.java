@@ -46,7 +46,7 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
         SeriesNames seriesNames = new SeriesNames(d.factors());
-        CrossSectionRoutes crossSection = new CrossSectionRoutes(new FamaMacBethStudy(d.panels()), new ModelTests(seriesNames));
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(new FamaMacBethStudy(d.panels(), d.factors()), new ModelTests(seriesNames));
         SignalRoutes signals = new SignalRoutes(new SignalPreview(d.panels(), d.factors()));
 
         return Javalin.create(config -> {

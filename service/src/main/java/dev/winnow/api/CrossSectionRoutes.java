@@ -2,6 +2,8 @@ package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.winnow.construct.DefinitionJson;
+import dev.winnow.construct.Recipe;
+import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.Universe;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
@@ -48,20 +50,23 @@ final class CrossSectionRoutes {
         JsonNode signalsNode = body.get("signals");
         if (signalsNode == null || !signalsNode.isObject() || signalsNode.isEmpty()) {
             throw ApiProblem.badRequest("Field 'signals' is required: an object naming 1 to " + MAX_SIGNALS
-                    + " signals, each a numeric column, as {\"value\": \"book_to_price\", \"size\": \"market_cap\"}.");
+                    + " signals, each a numeric column or a signal recipe, as {\"value\": \"book_to_price\", \"size\": {\"log\": \"market_cap\"}}.");
         }
         if (signalsNode.size() > MAX_SIGNALS) {
             throw ApiProblem.badRequest("At most " + MAX_SIGNALS + " signals per regression; got " + signalsNode.size() + ".");
         }
-        Map<String, String> signals = new LinkedHashMap<>();
+        Map<String, Recipe> signals = new LinkedHashMap<>();
+        List<String> signalProblems = new ArrayList<>();
         for (Iterator<Map.Entry<String, JsonNode>> it = signalsNode.fields(); it.hasNext(); ) {
             Map.Entry<String, JsonNode> e = it.next();
             Names.check("Signal", e.getKey());
-            if (!e.getValue().isTextual() || e.getValue().asText().isBlank()) {
-                throw ApiProblem.badRequest("signals." + e.getKey() + " must name a numeric column of the panel, got "
-                        + e.getValue() + ".");
+            Recipe recipe = RecipeJson.read(e.getValue(), "signals." + e.getKey(), signalProblems);
+            if (recipe != null) {
+                signals.put(e.getKey(), recipe);
             }
-            signals.put(e.getKey(), e.getValue().asText());
+        }
+        if (!signalProblems.isEmpty()) {
+            throw ApiProblem.badRequest("Field 'signals' is not valid: " + String.join("; ", signalProblems) + ".");
         }
         Integer lag = Requests.intField(body, "lag", 1, 1000);
         JsonNode standardize = body.get("standardize");

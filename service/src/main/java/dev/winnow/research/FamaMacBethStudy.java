@@ -3,11 +3,16 @@ package dev.winnow.research;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.PanelSchema;
 import dev.winnow.construct.PanelSource;
+import dev.winnow.construct.Recipe;
+import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.SampleRows;
 import dev.winnow.construct.Universe;
 import dev.winnow.ingest.FactorDefinitions;
 import dev.winnow.stats.CrossSectionRegression;
 import dev.winnow.stats.EstimateSeries;
+import dev.winnow.stats.ReturnSeries;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import dev.winnow.store.StorePanelSource;
@@ -30,15 +35,17 @@ import java.util.Map;
  */
 public final class FamaMacBethStudy {
     private final PanelStore panels;
+    private final FactorStore factors;
 
-    public FamaMacBethStudy(PanelStore panels) {
+    public FamaMacBethStudy(PanelStore panels, FactorStore factors) {
         this.panels = panels;
+        this.factors = factors;
     }
 
     public enum Weighting { EQUAL, CAP }
 
-    /** A study as asked: signal names in the order given, each a column name for now. */
-    public record Request(String panel, Map<String, String> signals, int lag, boolean standardize, Weighting weighting,
+    /** A study as asked: signal names in the order given, each a column or a recipe. */
+    public record Request(String panel, Map<String, Recipe> signals, int lag, boolean standardize, Weighting weighting,
                           Universe universe, LocalDate from, LocalDate to) {
         public Request {
             signals = java.util.Collections.unmodifiableMap(new LinkedHashMap<>(signals));
@@ -68,16 +75,20 @@ public final class FamaMacBethStudy {
                 .orElseThrow(() -> new InvalidStudyException("No panel '" + request.panel() + "'; GET /v1/panels lists them."));
         PanelSchema schema = FactorDefinitions.schemaOf(panels.columns(panel.id()));
         List<String> names = new ArrayList<>(request.signals().keySet());
-        List<CrossSectionSignal> signals = new ArrayList<>();
-        for (Map.Entry<String, String> e : request.signals().entrySet()) {
+        List<String> problems = new ArrayList<>();
+        for (Map.Entry<String, Recipe> e : request.signals().entrySet()) {
             if (e.getKey().equals("intercept")) {
                 throw new InvalidStudyException("A signal may not be named 'intercept'; that name is the regression's constant.");
             }
-            if (!schema.isNumeric(e.getValue())) {
-                throw new InvalidStudyException("Signal '" + e.getKey() + "' names '" + e.getValue() + "', which is not a numeric column of panel '"
-                        + panel.name() + "'; numeric columns are: " + String.join(", ", schema.numericColumns()) + ".");
-            }
-            signals.add(new CrossSectionSignal.Column(e.getValue()));
+            RecipeJson.check(e.getValue(), schema, panel.name(), "signals." + e.getKey(), problems);
+        }
+        if (!problems.isEmpty()) {
+            throw new InvalidStudyException(String.join("; ", problems) + ".");
+        }
+        StorePanelSource source = new StorePanelSource(panels, panel.id());
+        List<CrossSectionSignal> signals = new ArrayList<>();
+        for (Recipe recipe : request.signals().values()) {
+            signals.add(CrossSectionSignal.of(recipe, source, signalFactors(recipe)));
         }
         Universe universe = request.universe() == null ? Universe.ALL : request.universe();
         for (String column : universe.labelFilters().keySet()) {
@@ -89,7 +100,18 @@ public final class FamaMacBethStudy {
         if (request.weighting() == Weighting.CAP && !schema.hasMarketCap()) {
             throw new InvalidStudyException("weighting cap needs market_cap, and panel '" + panel.name() + "' has none; use equal.");
         }
-        return regress(new StorePanelSource(panels, panel.id()), panel.name(), names, signals, request, universe);
+        return regress(source, panel.name(), names, signals, request, universe);
+    }
+
+    /** The spread series of every factor a recipe reads (trailing_beta's {@code against}). */
+    private Map<String, ReturnSeries> signalFactors(Recipe recipe) {
+        Map<String, ReturnSeries> out = new LinkedHashMap<>();
+        for (String name : recipe.factors()) {
+            FactorVersionRecord f = factors.current(name).orElseThrow(() -> new InvalidStudyException(
+                    "A signal reads factor '" + name + "', which does not exist; GET /v1/factors lists them."));
+            out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));
+        }
+        return out;
     }
 
     static Result regress(PanelSource panel, String panelName, List<String> names, List<CrossSectionSignal> signals,

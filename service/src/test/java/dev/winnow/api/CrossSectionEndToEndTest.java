@@ -111,6 +111,25 @@ class CrossSectionEndToEndTest {
         assertEquals(e.get("slopes").get("intercept").get(0).asDouble(), Double.parseDouble(first[1]), 1e-12);
     }
 
+    /** A recipe signal: 2 x value has, period by period, half the slope of value and the same intercept (OLS algebra). */
+    @Test
+    void famaMacBethTakesSignalRecipes() {
+        JsonNode plain = server.postJson("/v1/fama-macbeth", "{\"panel\":\"xs\",\"signals\":{\"value\":\"value\",\"noise\":\"noise\"}}", ADMIN).json();
+        TestServer.Reply reply = server.postJson("/v1/fama-macbeth", "{\"panel\":\"xs\",\"signals\":{\"value\":"
+                + "{\"combine\":[{\"weight\":2,\"of\":\"value\"}]},\"noise\":\"noise\"}}", ADMIN);
+        assertEquals(200, reply.status(), reply.body());
+        JsonNode doubled = reply.json();
+        JsonNode a = plain.get("series").get("slopes");
+        JsonNode b = doubled.get("series").get("slopes");
+        assertEquals(a.get("value").size(), b.get("value").size());
+        for (int t = 0; t < a.get("value").size(); t++) {
+            assertEquals(a.get("value").get(t).asDouble() / 2, b.get("value").get(t).asDouble(), 1e-12);
+            assertEquals(a.get("intercept").get(t).asDouble(), b.get("intercept").get(t).asDouble(), 1e-12);
+        }
+        FiniteJson.problem(server.postJson("/v1/fama-macbeth", "{\"panel\":\"xs\",\"signals\":{\"v\":{\"log\":\"book_equity\"}}}", ADMIN), 400, "recipe");
+        FiniteJson.problem(server.postJson("/v1/fama-macbeth", "{\"panel\":\"xs\",\"signals\":{\"v\":{\"sqrt\":\"value\"}}}", ADMIN), 400, "recipe");
+    }
+
     @Test
     void famaMacBethNeedsReadScopeOnlyAndRejectsBadRequests() {
         TestServer.Reply token = server.postJson("/v1/tokens", "{\"name\":\"fm-reader\",\"scope\":\"read\"}", ADMIN);
