@@ -7,7 +7,6 @@ import dev.winnow.construct.Recipe;
 import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.SampleRows;
 import dev.winnow.construct.Universe;
-import dev.winnow.ingest.FactorDefinitions;
 import dev.winnow.stats.CrossSectionRegression;
 import dev.winnow.stats.EstimateSeries;
 import dev.winnow.stats.ReturnSeries;
@@ -72,18 +71,18 @@ public final class FamaMacBethStudy {
 
     public Result run(Request request) {
         PanelRecord panel = panels.find(request.panel()).filter(PanelRecord::visible)
-                .orElseThrow(() -> new InvalidStudyException("No panel '" + request.panel() + "'; GET /v1/panels lists them."));
+                .orElseThrow(() -> new InvalidRequestException("No panel '" + request.panel() + "'; GET /v1/panels lists them."));
         PanelSchema schema = FactorDefinitions.schemaOf(panels.columns(panel.id()));
         List<String> names = new ArrayList<>(request.signals().keySet());
         List<String> problems = new ArrayList<>();
         for (Map.Entry<String, Recipe> e : request.signals().entrySet()) {
             if (e.getKey().equals("intercept")) {
-                throw new InvalidStudyException("A signal may not be named 'intercept'; that name is the regression's constant.");
+                throw new InvalidRequestException("A signal may not be named 'intercept'; that name is the regression's constant.");
             }
             RecipeJson.check(e.getValue(), schema, panel.name(), "signals." + e.getKey(), problems);
         }
         if (!problems.isEmpty()) {
-            throw new InvalidStudyException(String.join("; ", problems) + ".");
+            throw new InvalidRequestException(String.join("; ", problems) + ".");
         }
         StorePanelSource source = new StorePanelSource(panels, panel.id());
         List<CrossSectionSignal> signals = new ArrayList<>();
@@ -93,12 +92,12 @@ public final class FamaMacBethStudy {
         Universe universe = request.universe() == null ? Universe.ALL : request.universe();
         for (String column : universe.labelFilters().keySet()) {
             if (!schema.isLabel(column)) {
-                throw new InvalidStudyException("universe.labels names '" + column + "', which is not a label column of panel '"
+                throw new InvalidRequestException("universe.labels names '" + column + "', which is not a label column of panel '"
                         + panel.name() + "'; label columns are: " + String.join(", ", schema.labelColumns()) + ".");
             }
         }
         if (request.weighting() == Weighting.CAP && !schema.hasMarketCap()) {
-            throw new InvalidStudyException("weighting cap needs market_cap, and panel '" + panel.name() + "' has none; use equal.");
+            throw new InvalidRequestException("weighting cap needs market_cap, and panel '" + panel.name() + "' has none; use equal.");
         }
         return regress(source, panel.name(), names, signals, request, universe);
     }
@@ -107,7 +106,7 @@ public final class FamaMacBethStudy {
     private Map<String, ReturnSeries> signalFactors(Recipe recipe) {
         Map<String, ReturnSeries> out = new LinkedHashMap<>();
         for (String name : recipe.factors()) {
-            FactorVersionRecord f = factors.current(name).orElseThrow(() -> new InvalidStudyException(
+            FactorVersionRecord f = factors.current(name).orElseThrow(() -> new InvalidRequestException(
                     "A signal reads factor '" + name + "', which does not exist; GET /v1/factors lists them."));
             out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));
         }

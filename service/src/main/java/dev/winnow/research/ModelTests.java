@@ -32,16 +32,16 @@ public final class ModelTests {
         Set<String> seen = new HashSet<>();
         for (String name : request.factors()) {
             if (!seen.add(name)) {
-                throw new InvalidStudyException("'factors' names '" + name + "' twice; list each factor once.");
+                throw new InvalidRequestException("'factors' names '" + name + "' twice; list each factor once.");
             }
         }
         for (String name : request.assets()) {
             if (request.factors().contains(name)) {
-                throw new InvalidStudyException("'" + name + "' is both a factor and a test asset; a factor prices itself"
+                throw new InvalidRequestException("'" + name + "' is both a factor and a test asset; a factor prices itself"
                         + " exactly, so leave it out of 'assets'.");
             }
             if (!seen.add(name)) {
-                throw new InvalidStudyException("'assets' names '" + name + "' twice; list each asset once.");
+                throw new InvalidRequestException("'assets' names '" + name + "' twice; list each asset once.");
             }
         }
         List<ReturnSeries> factors = new ArrayList<>();

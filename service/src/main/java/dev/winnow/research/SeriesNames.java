@@ -23,7 +23,7 @@ public final class SeriesNames {
     /** The stored series a name denotes, at its native frequency. */
     public Resolved resolve(String name, String parameter) {
         FactorVersionRecord v = factors.current(name)
-                .orElseThrow(() -> new InvalidStudyException("Unknown factor '" + name + "' in '" + parameter
+                .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + name + "' in '" + parameter
                         + "'; GET /v1/factors lists them."));
         return new Resolved(name, v, factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD));
     }
@@ -33,7 +33,7 @@ public final class SeriesNames {
         Resolved r = resolve(name, parameter);
         MonthlyBasis basis = MonthlyBasis.of(r.series());
         if (basis.excluded()) {
-            throw new InvalidStudyException("'" + name + "' in '" + parameter + "' cannot be used: " + basis.excludedReason() + ".");
+            throw new InvalidRequestException("'" + name + "' in '" + parameter + "' cannot be used: " + basis.excludedReason() + ".");
         }
         return basis.monthly().between(from, to);
     }
