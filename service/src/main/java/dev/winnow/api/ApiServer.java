@@ -52,6 +52,7 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
         ChartRoutes charts = new ChartRoutes(d.factors());
+        PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
@@ -66,6 +67,8 @@ public final class ApiServer {
 
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/", page::page);
+            config.routes.get("/ui/{file}", page::asset);
 
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);

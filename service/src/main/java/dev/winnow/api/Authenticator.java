@@ -48,7 +48,7 @@ public final class Authenticator {
 
     /** Before-handler: 401 without a known token, 403 when its scope is below what the route needs. */
     public void check(Context ctx) {
-        if (ctx.path().equals("/health") || ctx.method() == HandlerType.OPTIONS) {
+        if (ctx.path().equals("/health") || PageRoutes.isPublic(ctx.path()) || ctx.method() == HandlerType.OPTIONS) {
             return;
         }
         String header = ctx.header("Authorization");
