@@ -2,6 +2,8 @@ package dev.winnow.api;
 
 import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.ingest.FactorBuilds;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
@@ -41,6 +43,8 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
         SignalRoutes signals = new SignalRoutes(new SignalPreview(d.panels(), d.factors()));
+        HoldingsRoutes holdings = new HoldingsRoutes(d.factors(),
+                new FactorHoldings(new FactorBuilds(d.panels(), d.factors()), d.panels()));
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -70,6 +74,7 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
@@ -95,6 +100,12 @@ public final class ApiServer {
             config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
                     e.getMessage(), messages(e.problems())));
             config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
+                    e.getMessage(), java.util.List.of()));
+            config.routes.exception(FactorHoldings.NoHoldingsException.class, (e, ctx) -> problem(ctx, 409, "Conflict",
+                    e.getMessage(), java.util.List.of()));
+            config.routes.exception(FactorHoldings.HoldingsDateException.class, (e, ctx) -> problem(ctx, 400, "Bad request",
+                    e.getMessage(), java.util.List.of()));
+            config.routes.exception(FactorBuilds.FactorBuildException.class, (e, ctx) -> problem(ctx, 409, "Conflict",
                     e.getMessage(), java.util.List.of()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                     detailOf(e, ctx), java.util.List.of()));
