@@ -1,6 +1,5 @@
 package dev.winnow.api;
 
-import dev.winnow.ingest.FactorBuilds;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FactorHoldings.Position;
 import dev.winnow.research.FactorHoldings.View;
@@ -19,8 +18,7 @@ final class HoldingsRoutes {
         this.holdings = holdings;
     }
 
-    void get(Context ctx) throws FactorHoldings.NoHoldingsException, FactorHoldings.HoldingsDateException,
-            FactorBuilds.FactorBuildException {
+    void get(Context ctx) {
         boolean csv = Responses.wantsCsv(ctx);
         View view = holdings.at(FactorLookup.version(ctx, factors, ctx.pathParam("factor")), Requests.dateParam(ctx, "date"));
         if (!csv) {

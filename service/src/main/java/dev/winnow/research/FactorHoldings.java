@@ -2,7 +2,6 @@ package dev.winnow.research;
 
 import com.fasterxml.jackson.annotation.JsonProperty;
 import dev.winnow.construct.Holdings;
-import dev.winnow.ingest.FactorBuilds;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.PanelStore;
 
@@ -38,46 +37,43 @@ public final class FactorHoldings {
                        Legs legs) {
     }
 
-    /** The factor's series are uploaded (method external) or not built yet: it has no holdings to show. */
-    public static final class NoHoldingsException extends Exception {
-        public NoHoldingsException(String message) {
-            super(message);
-        }
-    }
-
-    /** The date asked for is before the panel or before the factor's first formation. */
-    public static final class HoldingsDateException extends Exception {
-        public HoldingsDateException(String message) {
-            super(message);
-        }
-    }
-
     /**
      * @param date any date, or null for the panel's last date; the holdings are those at the end of the latest grid
      *             date on or before it
+     * @throws ConflictException for an external series or a version that is not built
+     * @throws InvalidRequestException for a date before the panel or before the first formation
      */
-    public View at(FactorVersionRecord v, LocalDate date) throws NoHoldingsException, HoldingsDateException,
-            FactorBuilds.FactorBuildException {
+    public View at(FactorVersionRecord v, LocalDate date) {
         if (v.method().equals("external")) {
-            throw new NoHoldingsException("Factor '" + v.name() + "' is an external series (its returns are uploaded), so it"
+            throw new ConflictException("Factor '" + v.name() + "' is an external series (its returns are uploaded), so it"
                     + " holds no securities.");
         }
         if (!v.status().equals("ready")) {
-            throw new NoHoldingsException("Factor '" + v.name() + "' version " + v.version() + " is " + v.status()
+            throw new ConflictException("Factor '" + v.name() + "' version " + v.version() + " is " + v.status()
                     + ", not ready; wait for its build job.");
         }
-        List<LocalDate> grid = builds.grid(v);
+        List<LocalDate> grid;
+        Holdings h;
+        try {
+            grid = builds.grid(v);
+        } catch (FactorBuilds.FactorBuildException e) {
+            throw new ConflictException(e.getMessage());
+        }
         int index = grid.size() - 1;
         if (date != null) {
             int i = Collections.binarySearch(grid, date);
             index = i >= 0 ? i : -i - 2;
         }
         if (index < 0) {
-            throw new HoldingsDateException("Date " + date + " precedes the panel's first date " + grid.get(0) + ".");
+            throw new InvalidRequestException("Date " + date + " precedes the panel's first date " + grid.get(0) + ".");
         }
-        Holdings h = builds.holdings(v, index);
+        try {
+            h = builds.holdings(v, index);
+        } catch (FactorBuilds.FactorBuildException e) {
+            throw new ConflictException(e.getMessage());
+        }
         if (h == null) {
-            throw new HoldingsDateException("Factor '" + v.name() + "' has no formation on or before " + grid.get(index)
+            throw new InvalidRequestException("Factor '" + v.name() + "' has no formation on or before " + grid.get(index)
                     + "; ask for a later date.");
         }
         Map<Integer, String> codes = panels.securityCodes(v.panelId());

@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import dev.winnow.construct.CharacteristicExposures;
 import dev.winnow.construct.CrossSection;
@@ -8,8 +8,6 @@ import dev.winnow.construct.LoadingsTable;
 import dev.winnow.construct.PortfolioExposure;
 import dev.winnow.construct.SecurityLoadings;
 import dev.winnow.construct.SecurityLoadingsHistory;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.LoadingsJobs;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.LoadingsFactors;
 import dev.winnow.store.LoadingsStore;
@@ -30,14 +28,14 @@ import java.util.function.Consumer;
  * else computed now), characteristic exposures, one security's history, portfolio exposures, and the panel's
  * loadings config with its history job.
  */
-final class LoadingsService {
+public final class LoadingsService {
     private final PanelStore panels;
     private final FactorStore factors;
     private final LoadingsStore loadings;
-    private final JobQueue queue;
+    private final WorkQueue queue;
     private final Map<Long, SecurityCodes> codeCache = new ConcurrentHashMap<>();
 
-    LoadingsService(PanelStore panels, FactorStore factors, LoadingsStore loadings, JobQueue queue) {
+    public LoadingsService(PanelStore panels, FactorStore factors, LoadingsStore loadings, WorkQueue queue) {
         this.panels = panels;
         this.factors = factors;
         this.loadings = loadings;
@@ -45,86 +43,84 @@ final class LoadingsService {
     }
 
     /** Regression loadings at a date; {@code rows} orders the table's rows by security code. */
-    record Table(PanelRecord panel, LocalDate date, LoadingsSpec spec, LoadingsTable table, List<Integer> rows, Map<Integer, String> codes) {
+    public record Table(PanelRecord panel, LocalDate date, LoadingsSpec spec, LoadingsTable table, List<Integer> rows, Map<Integer, String> codes) {
     }
 
     /** Characteristic z-scores at a date, one array per column; {@code rows} orders the securities by code. */
-    record Characteristic(PanelRecord panel, LocalDate date, List<String> columns, int[] securityIds, double[][] scores,
+    public record Characteristic(PanelRecord panel, LocalDate date, List<String> columns, int[] securityIds, double[][] scores,
                           List<Integer> rows, Map<Integer, String> codes) {
     }
 
     /** One security's loadings over a date range; {@code history} is null when the range holds no grid date. */
-    record History(PanelRecord panel, String security, LoadingsSpec spec, SecurityLoadingsHistory history) {
+    public record History(PanelRecord panel, String security, LoadingsSpec spec, SecurityLoadingsHistory history) {
     }
 
     /** A portfolio's exposures; {@code securities} are the holdings' codes in request order. */
-    record Exposures(PanelRecord panel, LocalDate date, LoadingsSpec spec, PortfolioExposure exposure, List<String> securities) {
+    public record Exposures(PanelRecord panel, LocalDate date, LoadingsSpec spec, PortfolioExposure exposure, List<String> securities) {
     }
 
     /**
      * {@code source} hears "stored" or "computed" before any computing, so that a problem found while computing
      * (a date off the grid) still carries it.
      */
-    Table table(LoadingsRequest request, Consumer<String> source) {
-        PanelRecord panel = request.panel();
-        Regression regression = Regression.resolve(panel, request.regression(), loadings, factors);
-        LoadingsTable table = loadingsAt(panel, request.date(), regression, source);
+    public Table table(PanelRecord panel, LocalDate date, LoadingsSettings settings, Consumer<String> source) {
+        Regression regression = Regression.resolve(panel, settings, loadings, factors);
+        LoadingsTable table = loadingsAt(panel, date, regression, source);
         SecurityCodes codes = codes(panel);
-        return new Table(panel, request.date(), regression.spec(), table, codes.rowsByCode(table.securityIds()), codes.byId());
+        return new Table(panel, date, regression.spec(), table, codes.rowsByCode(table.securityIds()), codes.byId());
     }
 
-    Characteristic characteristic(LoadingsRequest request) {
-        PanelRecord panel = request.panel();
+    public Characteristic characteristic(PanelRecord panel, LocalDate date, List<String> columns) {
         List<LocalDate> grid = panels.dates(panel.id());
-        CrossSection cs = panels.slice(panel.id(), grid.get(PanelDates.index(grid, request.date(), panel.name())));
-        double[][] scores = CharacteristicExposures.zScores(cs, request.columns());
+        CrossSection cs = panels.slice(panel.id(), grid.get(PanelDates.index(grid, date, panel.name())));
+        double[][] scores = CharacteristicExposures.zScores(cs, columns);
         SecurityCodes codes = codes(panel);
-        return new Characteristic(panel, request.date(), request.columns(), cs.securityIds(), scores,
+        return new Characteristic(panel, date, columns, cs.securityIds(), scores,
                 codes.rowsByCode(cs.securityIds()), codes.byId());
     }
 
-    History history(SecurityHistoryRequest request) {
-        PanelRecord panel = request.panel();
-        Regression regression = Regression.resolve(panel, request.regression(), loadings, factors);
-        int securityId = codes(panel).byCode().getOrDefault(request.security(), -1);
+    /** {@code from} and {@code to} may be null (the panel's first and last date). */
+    public History history(PanelRecord panel, String security, LocalDate from, LocalDate to, LoadingsSettings settings) {
+        Regression regression = Regression.resolve(panel, settings, loadings, factors);
+        int securityId = codes(panel).byCode().getOrDefault(security, -1);
         if (securityId < 0) {
-            throw ApiProblem.notFound("Panel '" + panel.name() + "' has no security '" + request.security() + "'.");
+            throw new UnknownNameException("Panel '" + panel.name() + "' has no security '" + security + "'.");
         }
         StorePanelSource source = new StorePanelSource(panels, panel.id());
         List<LocalDate> grid = source.dates();
-        int fromIndex = request.from() == null ? 0 : PanelDates.insertionPoint(grid, request.from());
-        int toIndex = request.to() == null ? grid.size() - 1 : PanelDates.insertionPoint(grid, request.to().plusDays(1)) - 1;
+        int fromIndex = from == null ? 0 : PanelDates.insertionPoint(grid, from);
+        int toIndex = to == null ? grid.size() - 1 : PanelDates.insertionPoint(grid, to.plusDays(1)) - 1;
         LoadingsSpec spec = regression.spec();
         SecurityLoadingsHistory history = fromIndex > toIndex ? null : SecurityLoadings.history(source,
                 FactorGrid.align(LoadingsFactors.series(factors, regression.versions()), grid), securityId,
                 fromIndex, toIndex, spec.window(), spec.minObs());
-        return new History(panel, request.security(), spec, history);
+        return new History(panel, security, spec, history);
     }
 
     /** Hears the source as {@link #table} does. */
-    Exposures exposures(ExposuresRequest request, Consumer<String> source) {
-        PanelRecord panel = request.panel();
+    public Exposures exposures(PanelRecord panel, LocalDate date, List<String> securities, double[] weights, LoadingsSettings settings,
+                               Consumer<String> source) {
         Map<String, Integer> ids = codes(panel).byCode();
-        int[] securityIds = request.securities().stream().mapToInt(code -> ids.getOrDefault(code, -1)).toArray();
-        Regression regression = Regression.resolve(panel, request.regression(), loadings, factors);
-        LoadingsTable table = loadingsAt(panel, request.date(), regression, source);
-        return new Exposures(panel, request.date(), regression.spec(),
-                PortfolioExposure.of(table, securityIds, request.weights()), request.securities());
+        int[] securityIds = securities.stream().mapToInt(code -> ids.getOrDefault(code, -1)).toArray();
+        Regression regression = Regression.resolve(panel, settings, loadings, factors);
+        LoadingsTable table = loadingsAt(panel, date, regression, source);
+        return new Exposures(panel, date, regression.spec(),
+                PortfolioExposure.of(table, securityIds, weights), securities);
     }
 
-    LoadingsConfig saveConfig(PanelRecord panel, LoadingsSettings settings) {
+    public LoadingsConfig saveConfig(PanelRecord panel, LoadingsSettings settings) {
         return loadings.saveConfig(panel.id(), Regression.resolve(panel, settings, loadings, factors).spec());
     }
 
-    LoadingsConfig config(PanelRecord panel) {
-        return loadings.config(panel.id()).orElseThrow(() -> ApiProblem.notFound("Panel '" + panel.name()
+    public LoadingsConfig config(PanelRecord panel) {
+        return loadings.config(panel.id()).orElseThrow(() -> new UnknownNameException("Panel '" + panel.name()
                 + "' has no loadings config; PUT /v1/panels/" + panel.name() + "/loadings-config with {\"factors\": [...]} first."));
     }
 
     /** Queues the job that stores the loadings of every date under the panel's config; returns the job id. */
-    long startHistory(PanelRecord panel) {
+    public long startHistory(PanelRecord panel) {
         config(panel);
-        return queue.enqueue(LoadingsJobs.KIND, LoadingsJobs.params(panel.name(), panel.id()));
+        return queue.queueLoadingsHistory(panel.name(), panel.id());
     }
 
     private SecurityCodes codes(PanelRecord panel) {
