@@ -7,12 +7,15 @@ import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.FactorHoldings;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.research.UnknownNameException;
+import dev.winnow.stats.InsufficientDataException;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.PanelStore;
@@ -36,6 +39,7 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests,
                                FactorHoldings holdings) {
     }
 
@@ -50,10 +54,12 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
         ChartRoutes charts = new ChartRoutes(d.factors());
+        PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -64,6 +70,8 @@ public final class ApiServer {
 
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/", page::page);
+            config.routes.get("/ui/{file}", page::asset);
 
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
@@ -105,6 +113,9 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
+            config.routes.get("/v1/model-tests", crossSection::modelTests);
+
             mapErrors(config);
         });
     }
@@ -117,6 +128,7 @@ public final class ApiServer {
     static void mapErrors(JavalinConfig config) {
         config.routes.exception(UnknownNameException.class, (e, ctx) -> problem(ctx, 404, "Not found", e.getMessage(), java.util.List.of()));
         config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+        config.routes.exception(InsufficientDataException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
         config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",

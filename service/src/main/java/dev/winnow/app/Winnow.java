@@ -11,6 +11,9 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
+import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.FactorHoldings;
@@ -82,6 +85,7 @@ public final class Winnow implements AutoCloseable {
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
                 new FactorHoldings(builds, panels)), config.bind(), config.port());
     }
 

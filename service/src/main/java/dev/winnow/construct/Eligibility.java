@@ -23,11 +23,23 @@ final class Eligibility {
 
     /** The same, also requiring a finite {@code control} value (a dependent double sort's control signal) when given. */
     static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal, double[] control) {
-        int n = xs.size();
-        double[] caps = xs.marketCaps();
         boolean needsCap = def.method() == Method.SIZE_SORT || def.method() == Method.MARKET
                 || (def.method() == Method.SORT && def.effectiveWeighting() == Weighting.CAP);
-        Universe universe = def.effectiveUniverse();
+        return rows(def.effectiveUniverse(), xs, signal, control, needsCap);
+    }
+
+    /**
+     * Row indices of {@code xs}, increasing, with a finite {@code signal} (unless null), a finite positive market_cap
+     * when {@code needsCap}, that pass the universe's restrictions.
+     */
+    static int[] rows(Universe universe, CrossSection xs, double[] signal, boolean needsCap) {
+        return rows(universe, xs, signal, null, needsCap);
+    }
+
+    /** The same, also requiring a finite {@code control} value when given. */
+    static int[] rows(Universe universe, CrossSection xs, double[] signal, double[] control, boolean needsCap) {
+        int n = xs.size();
+        double[] caps = xs.marketCaps();
         Double minCap = universe.minMarketCap();
         String[][] filterLabels = new String[universe.labelFilters().size()][];
         LabelFilter[] filters = new LabelFilter[filterLabels.length];
