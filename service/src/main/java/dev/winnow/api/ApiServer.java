@@ -67,6 +67,10 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
+            config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
+            config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
+            config.routes.before(Requests::checkQueryEscapes);
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
