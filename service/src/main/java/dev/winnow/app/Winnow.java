@@ -78,7 +78,7 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         this.worker = new JobWorker(jobs, handlers);
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
