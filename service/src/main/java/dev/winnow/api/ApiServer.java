@@ -91,6 +91,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
