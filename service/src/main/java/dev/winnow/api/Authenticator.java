@@ -88,7 +88,7 @@ public final class Authenticator {
         if (method == HandlerType.GET || method == HandlerType.HEAD) {
             return Scope.READ;
         }
-        if (method == HandlerType.POST && path.equals("/v1/exposures")) {
+        if (method == HandlerType.POST && (path.equals("/v1/exposures") || path.equals("/v1/fama-macbeth"))) {
             return Scope.READ;
         }
         return Scope.WRITE;
