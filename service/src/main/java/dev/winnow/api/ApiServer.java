@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
@@ -70,6 +71,10 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
+            config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
+            config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
+            config.routes.before(Requests::checkQueryEscapes);
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
@@ -78,6 +83,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);
@@ -105,6 +111,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
