@@ -27,27 +27,28 @@ final class AnalyticsRoutes {
     private static final int MAX_CORRELATION_FACTORS = 200;
 
     private final FactorStore factors;
+    private final ServedResponses served;
 
-    AnalyticsRoutes(FactorStore factors) {
+    AnalyticsRoutes(FactorStore factors, ServedResponses served) {
         this.factors = factors;
+        this.served = served;
     }
 
     void summary(Context ctx) {
         SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
         Integer lags = lagsParam(ctx);
-        if (Responses.notModified(ctx, request.version(), false)) {
-            return;
-        }
-        SeriesRequest.Resolved resolved = nonEmpty(request);
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", request.version().name());
-        out.put("version", request.version().version());
-        out.put("frequency", resolved.frequency().wireName());
-        out.put("from", resolved.series().date(0));
-        out.put("to", resolved.series().date(resolved.series().size() - 1));
-        out.putAll(summaryFields(SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags)));
-        out.putAll(costFields(request.version(), resolved));
-        Json.respond(ctx, out);
+        served.respond(ctx, Responses.dataKey(request.version()), false, () -> {
+            SeriesRequest.Resolved resolved = nonEmpty(request);
+            Map<String, Object> out = new LinkedHashMap<>();
+            out.put("factor", request.version().name());
+            out.put("version", request.version().version());
+            out.put("frequency", resolved.frequency().wireName());
+            out.put("from", resolved.series().date(0));
+            out.put("to", resolved.series().date(resolved.series().size() - 1));
+            out.putAll(summaryFields(SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags)));
+            out.putAll(costFields(request.version(), resolved));
+            return Responses.jsonBody(out);
+        });
     }
 
     void drawdowns(Context ctx) {
@@ -165,7 +166,7 @@ final class AnalyticsRoutes {
         Frequency target = SeriesRequest.frequencyParam(ctx);
         List<ReturnSeries> out = new ArrayList<>();
         for (String name : names) {
-            FactorVersionRecord v = factors.current(name)
+            FactorVersionRecord v = factors.catalog().current(name)
                     .orElseThrow(() -> ApiProblem.badRequest("Unknown factor '" + name + "' in 'factors'; GET /v1/factors lists them."));
             SeriesRequest.Resolved r = new SeriesRequest(v, FactorStore.Leg.SPREAD, from, to, target).load(factors);
             if (r.series().size() == 0) {

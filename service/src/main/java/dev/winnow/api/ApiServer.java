@@ -31,11 +31,13 @@ public final class ApiServer {
 
     public static Javalin create(Dependencies d, String host, int port) {
         Authenticator auth = new Authenticator(d.tokens());
-        TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
+        TokenRoutes tokens = new TokenRoutes(d.tokens());
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
-        FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
-        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        ServedResponses served = new ServedResponses();
+        FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool(), served);
+        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
+        LibraryRoutes library = new LibraryRoutes(d.factors(), served);
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
 
@@ -70,6 +72,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
+            config.routes.get("/v1/returns", library::returns);
+            config.routes.get("/v1/covariance", library::covariance);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);

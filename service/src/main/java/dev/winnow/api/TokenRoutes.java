@@ -15,11 +15,9 @@ final class TokenRoutes {
     private static final Pattern NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._-]{0,99}");
 
     private final TokenStore tokens;
-    private final Authenticator authenticator;
 
-    TokenRoutes(TokenStore tokens, Authenticator authenticator) {
+    TokenRoutes(TokenStore tokens) {
         this.tokens = tokens;
-        this.authenticator = authenticator;
     }
 
     void create(Context ctx) {
@@ -38,7 +36,6 @@ final class TokenRoutes {
         if (!tokens.insert(name, scope.wireName(), Authenticator.hash(token))) {
             throw new ApiProblem(409, "Conflict", "A token named '" + name + "' exists; revoke it first or choose another name.");
         }
-        authenticator.refresh();
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("name", name);
         out.put("scope", scope.wireName());
@@ -63,7 +60,6 @@ final class TokenRoutes {
         if (!tokens.delete(name)) {
             throw ApiProblem.notFound("No token named '" + name + "'; GET /v1/tokens lists them.");
         }
-        authenticator.refresh();
         ctx.status(204);
     }
 }

@@ -8,7 +8,9 @@ import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.JsonText;
 import dev.winnow.ingest.JobWorker;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.store.ChangeFeed;
 import dev.winnow.store.Database;
+import dev.winnow.store.LocalChangeFeed;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.LoadingsStore;
@@ -39,10 +41,11 @@ public final class Winnow implements AutoCloseable {
         Files.createDirectories(config.dataDir());
         this.database = Database.open(config.dbUrl());
         this.jdbi = database.jdbi();
-        TokenStore tokens = new TokenStore(jdbi);
+        ChangeFeed changes = new LocalChangeFeed();
+        TokenStore tokens = new TokenStore(jdbi, changes);
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
-        FactorStore factors = new FactorStore(jdbi);
+        FactorStore factors = new FactorStore(jdbi, changes);
         LoadingsStore loadings = new LoadingsStore(jdbi);
         UploadSpool spool = new UploadSpool(config.dataDir());
 

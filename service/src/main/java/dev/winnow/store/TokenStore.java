@@ -9,9 +9,16 @@ import java.util.List;
 /** API tokens: only SHA-256 hashes are stored. */
 public final class TokenStore {
     private final Jdbi jdbi;
+    private final ChangeFeed feed;
 
-    public TokenStore(Jdbi jdbi) {
+    public TokenStore(Jdbi jdbi, ChangeFeed feed) {
         this.jdbi = jdbi;
+        this.feed = feed;
+    }
+
+    /** The feed this store announces its commits on: the authenticator refreshes its token cache from it. */
+    public ChangeFeed feed() {
+        return feed;
     }
 
     public record TokenRecord(String name, String scope, String tokenHash, OffsetDateTime createdAt) {
@@ -26,7 +33,7 @@ public final class TokenStore {
 
     /** Inserts a token; false when the name is taken. */
     public boolean insert(String name, String scope, String tokenHash) {
-        return jdbi.inTransaction(h -> {
+        return announced(jdbi.inTransaction(h -> {
             boolean exists = h.createQuery("SELECT COUNT(*) FROM api_tokens WHERE name = :name")
                     .bind("name", name).mapTo(Integer.class).one() > 0;
             if (exists) {
@@ -37,11 +44,18 @@ public final class TokenStore {
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .execute();
             return true;
-        });
+        }));
+    }
+
+    private boolean announced(boolean changed) {
+        if (changed) {
+            feed.committed(ChangeFeed.Topic.TOKENS);
+        }
+        return changed;
     }
 
     public boolean delete(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0;
+        return announced(jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0);
     }
 
     public boolean anyWithScope(String scope) {
