@@ -11,28 +11,49 @@ import java.util.Map;
  * @param dataDir    WINNOW_DATA_DIR (default ./data): the H2 file and spooled uploads
  * @param dbUrl      WINNOW_DB_URL (default an H2 file under the data dir)
  * @param adminToken WINNOW_ADMIN_TOKEN: bootstrap admin token, or null
+ * @param dbPool     WINNOW_DB_POOL (default 16): the most connections the pool opens to the store
  */
-public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken) {
+public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken, int dbPool) {
+
+    /** A configuration with the defaults for everything not named. */
+    public Config(int port, String bind, Path dataDir, String dbUrl, String adminToken) {
+        this(port, bind, dataDir, dbUrl, adminToken, dev.winnow.store.Database.DEFAULT_POOL_SIZE);
+    }
+
+    /** The same configuration on another store. */
+    public Config withDbUrl(String url) {
+        return new Config(port, bind, dataDir, url, adminToken, dbPool);
+    }
 
     public static Config fromEnvironment(Map<String, String> env) {
         Path dataDir = Path.of(env.getOrDefault("WINNOW_DATA_DIR", "data")).toAbsolutePath();
-        String port = env.getOrDefault("WINNOW_PORT", "8080");
-        int parsedPort;
-        try {
-            parsedPort = Integer.parseInt(port.trim());
-        } catch (NumberFormatException e) {
-            throw new IllegalArgumentException("WINNOW_PORT must be a whole number from 0 to 65535, got '" + port + "'");
-        }
-        if (parsedPort < 0 || parsedPort > 65535) {
-            throw new IllegalArgumentException("WINNOW_PORT must be a whole number from 0 to 65535, got " + parsedPort);
-        }
+        int parsedPort = wholeNumber(env, "WINNOW_PORT", 8080, 0, 65535);
         String dbUrl = env.get("WINNOW_DB_URL");
         if (dbUrl == null || dbUrl.isBlank()) {
             dbUrl = defaultH2Url(dataDir);
         }
         String token = env.get("WINNOW_ADMIN_TOKEN");
+        int pool = wholeNumber(env, "WINNOW_DB_POOL", dev.winnow.store.Database.DEFAULT_POOL_SIZE, 1, 1000);
         return new Config(parsedPort, env.getOrDefault("WINNOW_BIND", "127.0.0.1"), dataDir, dbUrl,
-                token == null || token.isBlank() ? null : token);
+                token == null || token.isBlank() ? null : token, pool);
+    }
+
+    /** A whole-number setting from {@code min} to {@code max}, or its default when unset. */
+    static int wholeNumber(Map<String, String> env, String name, int fallback, int min, int max) {
+        String text = env.get(name);
+        if (text == null || text.isBlank()) {
+            return fallback;
+        }
+        int value;
+        try {
+            value = Integer.parseInt(text.trim());
+        } catch (NumberFormatException e) {
+            throw new IllegalArgumentException(name + " must be a whole number from " + min + " to " + max + ", got '" + text + "'");
+        }
+        if (value < min || value > max) {
+            throw new IllegalArgumentException(name + " must be a whole number from " + min + " to " + max + ", got " + value);
+        }
+        return value;
     }
 
     /**

@@ -39,7 +39,7 @@ public final class Winnow implements AutoCloseable {
 
     private Winnow(Config config) throws IOException {
         Files.createDirectories(config.dataDir());
-        this.database = Database.open(config.dbUrl());
+        this.database = Database.open(config.dbUrl(), config.dbPool(), null);
         this.jdbi = database.jdbi();
         ChangeFeed changes = new LocalChangeFeed();
         TokenStore tokens = new TokenStore(jdbi, changes);

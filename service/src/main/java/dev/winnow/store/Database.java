@@ -1,50 +1,98 @@
 package dev.winnow.store;
 
+import com.zaxxer.hikari.HikariConfig;
+import com.zaxxer.hikari.HikariDataSource;
 import org.flywaydb.core.Flyway;
-import org.h2.jdbcx.JdbcConnectionPool;
 import org.jdbi.v3.core.Jdbi;
 
-import javax.sql.DataSource;
-
 /**
- * The store: a pooled DataSource for the JDBC URL, migrated by Flyway from the migrations packaged in the jar.
- * H2 gets its own connection pool, which also keeps the embedded database open between requests.
+ * The store: one HikariCP connection pool for the JDBC URL, whatever the backend (embedded H2 or PostgreSQL),
+ * migrated by Flyway from the migrations packaged in the jar. The pool keeps at least one connection open, which
+ * also keeps an embedded H2 database open between requests; closing the pool closes it.
  */
 public final class Database implements AutoCloseable {
-    private final Jdbi jdbi;
-    private final JdbcConnectionPool h2Pool;
+    /** WINNOW_DB_POOL's default. */
+    public static final int DEFAULT_POOL_SIZE = 16;
 
-    private Database(Jdbi jdbi, JdbcConnectionPool h2Pool) {
-        this.jdbi = jdbi;
-        this.h2Pool = h2Pool;
+    private final Jdbi jdbi;
+    private final HikariDataSource pool;
+    private final Dialect dialect;
+
+    /** The backends whose SQL differs in the few places DEVELOPERS.md names. */
+    public enum Dialect {
+        H2, POSTGRESQL;
+
+        static Dialect of(String jdbcUrl) {
+            if (jdbcUrl.startsWith("jdbc:h2:")) {
+                return H2;
+            }
+            if (jdbcUrl.startsWith("jdbc:postgresql:")) {
+                return POSTGRESQL;
+            }
+            throw new IllegalArgumentException("WINNOW_DB_URL must be an H2 (jdbc:h2:...) or PostgreSQL (jdbc:postgresql:...) JDBC URL");
+        }
     }
 
+    private Database(HikariDataSource pool, Dialect dialect) {
+        this.pool = pool;
+        this.dialect = dialect;
+        this.jdbi = Jdbi.create(pool);
+    }
+
+    /** Opens the store with the default pool size. */
     public static Database open(String jdbcUrl) {
-        JdbcConnectionPool pool = null;
-        DataSource dataSource;
-        if (jdbcUrl.startsWith("jdbc:h2:")) {
-            pool = JdbcConnectionPool.create(jdbcUrl, "", "");
-            pool.setMaxConnections(32);
-            dataSource = pool;
-        } else {
-            dataSource = new DriverManagerDataSource(jdbcUrl);
+        return open(jdbcUrl, DEFAULT_POOL_SIZE, null);
+    }
+
+    /**
+     * Opens a pool of at most {@code poolSize} connections and migrates the schema.
+     *
+     * @param metricRegistry a Micrometer MeterRegistry for the pool's metrics, or null
+     */
+    public static Database open(String jdbcUrl, int poolSize, Object metricRegistry) {
+        if (poolSize < 1) {
+            throw new IllegalArgumentException("the connection pool needs at least one connection, got " + poolSize);
         }
-        Flyway.configure()
-                .dataSource(dataSource)
-                .locations("classpath:db/migration")
-                .load()
-                .migrate();
-        return new Database(Jdbi.create(dataSource), pool);
+        Dialect dialect = Dialect.of(jdbcUrl);
+        HikariConfig config = new HikariConfig();
+        config.setPoolName("winnow");
+        config.setJdbcUrl(jdbcUrl);
+        config.setMaximumPoolSize(poolSize);
+        config.setMinimumIdle(Math.min(2, poolSize));
+        config.setConnectionTimeout(30_000);
+        // a pool that cannot reach its database at start-up fails the start with the driver's message
+        config.setInitializationFailTimeout(1);
+        if (dialect == Dialect.H2) {
+            // an embedded database lives as long as a connection to it: never retire them all at once
+            config.setMaxLifetime(0);
+        }
+        if (metricRegistry != null) {
+            config.setMetricRegistry(metricRegistry);
+        }
+        HikariDataSource pool = new HikariDataSource(config);
+        try {
+            Flyway.configure()
+                    .dataSource(pool)
+                    .locations("classpath:db/migration")
+                    .load()
+                    .migrate();
+        } catch (RuntimeException e) {
+            pool.close();
+            throw e;
+        }
+        return new Database(pool, dialect);
     }
 
     public Jdbi jdbi() {
         return jdbi;
     }
 
+    public Dialect dialect() {
+        return dialect;
+    }
+
     @Override
     public void close() {
-        if (h2Pool != null) {
-            h2Pool.dispose(); // the last connection closing closes the embedded database
-        }
+        pool.close(); // the last connection closing closes an embedded database
     }
 }

@@ -2,6 +2,8 @@ package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.winnow.app.Config;
+import dev.winnow.store.TestDatabase;
 import org.junit.jupiter.api.AfterEach;
 
 import java.io.IOException;
@@ -28,13 +30,17 @@ class CrashRecoveryEndToEndTest {
     private static final ObjectMapper JSON = new ObjectMapper();
     private final HttpClient client = HttpClient.newHttpClient();
     private Path dir;
+    private TestDatabase database;
     private Process process;
     private int port;
 
     @AfterEach
-    void cleanUp() throws IOException {
+    void cleanUp() throws Exception {
         if (process != null) {
-            process.destroyForcibly();
+            process.destroyForcibly().waitFor();
+        }
+        if (database != null) {
+            database.close();
         }
         if (dir != null) {
             try (var files = Files.walk(dir)) {
@@ -48,6 +54,7 @@ class CrashRecoveryEndToEndTest {
     @org.junit.jupiter.params.provider.ValueSource(doubles = {-1.0, 0.05, 0.6})
     void killDuringIngestLosesNothingAndAppliesNothingTwice(double killAtProgress) throws Exception {
         dir = Files.createTempDirectory("winnow-crash");
+        database = TestDatabase.fresh(dir, Config.defaultH2Url(dir));
         port = freePort();
         startService();
         assertEquals("succeeded", await(upload("date,security,return,market_cap,score\n2019-12-31,A,0.01,100,1\n")).path("state").asText());
@@ -93,6 +100,7 @@ class CrashRecoveryEndToEndTest {
                 "-Xmx256m", "-cp", System.getProperty("java.class.path"), "dev.winnow.app.Main", "serve");
         pb.environment().put("WINNOW_PORT", String.valueOf(port));
         pb.environment().put("WINNOW_DATA_DIR", dir.toString());
+        pb.environment().put("WINNOW_DB_URL", database.url());
         pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);
         pb.redirectErrorStream(true).redirectOutput(dir.resolve("service.log").toFile());
         process = pb.start();

@@ -4,6 +4,7 @@ import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import dev.winnow.app.Config;
 import dev.winnow.app.Winnow;
+import dev.winnow.store.TestDatabase;
 
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
@@ -21,23 +22,37 @@ import java.util.zip.GZIPOutputStream;
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.fail;
 
-/** The real server on a random port with a temporary store, driven over HTTP. */
+/**
+ * The real server on a random port with a temporary store, driven over HTTP. The store is H2 under a temporary
+ * directory, or a fresh schema of the PostgreSQL database that WINNOW_TEST_DB_URL names (see {@link TestDatabase}).
+ */
 public final class TestServer implements AutoCloseable {
     public static final String ADMIN = "test-admin-token";
     private static final ObjectMapper MAPPER = new ObjectMapper();
 
     private final Path dir;
+    private final TestDatabase database;
     private Winnow winnow;
     private final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     public TestServer() throws IOException {
         this.dir = Files.createTempDirectory("winnow-test");
+        this.database = TestDatabase.fresh(dir, Config.defaultH2Url(dir));
         start();
     }
 
     public void start() throws IOException {
-        Config config = new Config(0, "127.0.0.1", dir, Config.defaultH2Url(dir), ADMIN);
-        winnow = Winnow.start(config);
+        winnow = Winnow.start(config());
+    }
+
+    /** The configuration this server runs with: port 0, its store, the test admin token. */
+    public Config config() {
+        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN);
+    }
+
+    /** The JDBC URL of this server's store. */
+    public String dbUrl() {
+        return database.url();
     }
 
     /** Stops and starts the service on the same store, as after a restart. */
@@ -166,6 +181,7 @@ public final class TestServer implements AutoCloseable {
     @Override
     public void close() throws IOException {
         winnow.close();
+        database.close();
         try (var files = Files.walk(dir)) {
             files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
         }

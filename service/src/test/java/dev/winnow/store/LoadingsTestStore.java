@@ -22,6 +22,7 @@ import java.util.Random;
  */
 public final class LoadingsTestStore implements AutoCloseable {
     private final Path dir;
+    private final TestDatabase store;
     private final Database database;
     public final PanelStore panels;
     public final FactorStore factors;
@@ -34,7 +35,8 @@ public final class LoadingsTestStore implements AutoCloseable {
         } catch (IOException e) {
             throw new UncheckedIOException(e);
         }
-        database = Database.open("jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
+        store = TestDatabase.fresh(dir, "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
+        database = Database.open(store.url());
         panels = new PanelStore(database.jdbi());
         factors = new FactorStore(database.jdbi());
         loadings = new LoadingsStore(database.jdbi());
@@ -171,6 +173,7 @@ public final class LoadingsTestStore implements AutoCloseable {
     @Override
     public void close() {
         database.close();
+        store.close();
         try (var files = Files.walk(dir)) {
             files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
         } catch (IOException e) {
