@@ -83,6 +83,7 @@ public final class ApiServer {
             config.routes.get("/v1/loadings", loadings::get);
             config.routes.get("/v1/loadings/{security}", loadings::securityHistory);
             config.routes.post("/v1/exposures", loadings::exposures);
+            config.routes.post("/v1/risk", loadings::risk);
             config.routes.put("/v1/panels/{panel}/loadings-config", loadings::putConfig);
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);

@@ -114,7 +114,7 @@ public final class Authenticator {
         if (method == HandlerType.GET || method == HandlerType.HEAD) {
             return Scope.READ;
         }
-        if (method == HandlerType.POST && path.equals("/v1/exposures")) {
+        if (method == HandlerType.POST && (path.equals("/v1/exposures") || path.equals("/v1/risk"))) {
             return Scope.READ;
         }
         return Scope.WRITE;

@@ -57,6 +57,12 @@ public final class LoadingsRoutes {
         Json.respond(ctx, LoadingsJson.exposures(service.exposures(request, source -> ctx.header(SOURCE_HEADER, source))));
     }
 
+    /** {@code POST /v1/risk}: a portfolio's factor and specific risk and its decomposition (read scope). */
+    public void risk(Context ctx) {
+        RiskRequest request = RiskRequest.of(ctx, panels);
+        Json.respond(ctx, LoadingsJson.risk(service.risk(request, source -> ctx.header(SOURCE_HEADER, source))));
+    }
+
     /** {@code PUT /v1/panels/{panel}/loadings-config}: sets the panel's default factor set (write scope). */
     public void putConfig(Context ctx) {
         PanelRecord panel = PanelLookup.visible(panels, ctx.pathParam("panel"));

@@ -9,6 +9,8 @@ import dev.winnow.construct.PortfolioExposure;
 import dev.winnow.construct.SecurityLoadings;
 import dev.winnow.construct.SecurityLoadingsHistory;
 import dev.winnow.ingest.JobQueue;
+import dev.winnow.stats.Frequency;
+import dev.winnow.stats.PortfolioRisk;
 import dev.winnow.ingest.LoadingsJobs;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.LoadingsFactors;
@@ -110,6 +112,51 @@ final class LoadingsService {
         LoadingsTable table = loadingsAt(panel, request.date(), regression, source);
         return new Exposures(panel, request.date(), regression.spec(),
                 PortfolioExposure.of(table, securityIds, request.weights()), request.securities());
+    }
+
+    /** A portfolio's risk: its active exposures, the factor covariance at its date, and the decomposition. */
+    record Risk(PanelRecord panel, LocalDate date, List<String> factors, PortfolioExposure exposure, List<String> securities,
+                LibraryRoutes.Covariance covariance, PortfolioRisk risk) {
+    }
+
+    /**
+     * Exposures x of the active weights from the securities' loadings at the date (as {@link #exposures}), the
+     * factor covariance F at the panel's frequency over the last common date at or before it (annualised), and the
+     * specific variance periods-per-year x sum_i w_i^2 s_i^2 over the securities with loadings; hears the loadings
+     * source as {@link #table} does.
+     */
+    Risk risk(RiskRequest request, Consumer<String> source) {
+        PanelRecord panel = request.panel();
+        Map<String, Integer> ids = codes(panel).byCode();
+        int[] securityIds = request.securities().stream().mapToInt(code -> ids.getOrDefault(code, -1)).toArray();
+        Regression regression = Regression.resolve(panel, request.regression(), loadings, factors);
+        LoadingsTable table = loadingsAt(panel, request.date(), regression, source);
+        PortfolioExposure exposure = PortfolioExposure.of(table, securityIds, request.activeWeights());
+        if (exposure.missingHoldings().size() == securityIds.length) {
+            throw ApiProblem.badRequest("None of the " + securityIds.length + " securities has loadings at " + request.date()
+                    + " (not in panel '" + panel.name() + "' then, or too few observations); nothing to measure.");
+        }
+        Frequency frequency = Optional.ofNullable(Frequency.fromWireName(panel.frequency())).orElse(Frequency.DAILY);
+        LibraryRoutes.Covariance covariance = LibraryRoutes.Covariance.of(new FactorSet(regression.versions())
+                .load(factors, FactorStore.Leg.SPREAD, null, request.date(), frequency), request.covariance(), true);
+        List<Double> coveredWeights = new java.util.ArrayList<>();
+        List<Double> residualVols = new java.util.ArrayList<>();
+        for (int h = 0; h < securityIds.length; h++) {
+            if (!exposure.missingHoldings().contains(h)) {
+                coveredWeights.add(request.activeWeights()[h]);
+                residualVols.add(table.residualVol()[table.rowOf(securityIds[h])]);
+            }
+        }
+        double specific = PortfolioRisk.specificVariance(coveredWeights.stream().mapToDouble(Double::doubleValue).toArray(),
+                residualVols.stream().mapToDouble(Double::doubleValue).toArray(), frequency.periodsPerYear());
+        PortfolioRisk risk;
+        try {
+            risk = PortfolioRisk.of(exposure.exposures(), covariance.estimate().covariance(), specific);
+        } catch (IllegalArgumentException e) {
+            throw ApiProblem.badRequest("The portfolio's risk cannot be decomposed: " + e.getMessage()
+                    + " (active weights all zero, or a covariance that is not positive for these exposures).");
+        }
+        return new Risk(panel, request.date(), regression.spec().factors(), exposure, request.securities(), covariance, risk);
     }
 
     LoadingsConfig saveConfig(PanelRecord panel, LoadingsSettings settings) {
