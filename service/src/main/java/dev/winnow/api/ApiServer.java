@@ -2,6 +2,7 @@ package dev.winnow.api;
 
 import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.research.SignalPreview;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.LoadingsStore;
@@ -38,8 +39,10 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
         LibraryRoutes library = new LibraryRoutes(d.factors(), served);
+        ChartRoutes charts = new ChartRoutes(d.factors());
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
+        SignalRoutes signals = new SignalRoutes(new SignalPreview(d.panels(), d.factors()));
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -60,6 +63,7 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/uploads", panels::upload);
             config.routes.get("/v1/panels", panels::list);
             config.routes.get("/v1/panels/{panel}", panels::get);
+            config.routes.get("/v1/panels/{panel}/signals", signals::values);
 
             config.routes.put("/v1/factors/{factor}", factors::define);
             config.routes.get("/v1/factors", factors::list);
@@ -75,6 +79,10 @@ public final class ApiServer {
             config.routes.get("/v1/returns", library::returns);
             config.routes.get("/v1/covariance", library::covariance);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
+            config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
+            config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
+            config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
             config.routes.get("/v1/themes", evidence::themes);
@@ -89,6 +97,10 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
             config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
+            config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
+                    e.getMessage(), messages(e.problems())));
+            config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
+                    e.getMessage(), java.util.List.of()));
             config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                     detailOf(e, ctx), java.util.List.of()));
             config.routes.exception(Exception.class, (e, ctx) -> {
@@ -107,6 +119,15 @@ public final class ApiServer {
                 }
             });
         });
+    }
+
+    /** Problem sentences as the {@code errors} list of a problem body. */
+    private static java.util.List<Map<String, Object>> messages(java.util.List<String> problems) {
+        java.util.List<Map<String, Object>> errors = new java.util.ArrayList<>();
+        for (String p : problems) {
+            errors.add(Map.of("message", p));
+        }
+        return errors;
     }
 
     private static boolean isProblem(Context ctx) {

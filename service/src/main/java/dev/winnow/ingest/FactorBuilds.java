@@ -66,7 +66,7 @@ public final class FactorBuilds {
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
     public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), null, 0, 0, checkpointDates);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
         Map<String, Object> report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
@@ -83,7 +83,7 @@ public final class FactorBuilds {
         Map<String, Object> previous = v.buildReport() == null ? Map.of() : JsonText.readMap(v.buildReport());
         int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), state,
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), state,
                 previousObservations, previousMissing, checkpointDates);
         Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
@@ -110,7 +110,7 @@ public final class FactorBuilds {
             report.put("recomputed_dates", panel.dates().size());
             return report;
         }
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, riskFree(def), EngineState.fromBytes(checkpoint.state()),
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, riskFree(def), signalFactors(def), EngineState.fromBytes(checkpoint.state()),
                 checkpoint.observations(), checkpoint.periodsWithoutReturn(), checkpointDates);
         Map<String, Object> report = report(run.build(), checkpoint.observations(), checkpoint.periodsWithoutReturn());
         report.put("rebuilt_from", checkpoint.lastDate().toString());
@@ -167,6 +167,59 @@ public final class FactorBuilds {
         FactorVersionRecord rf = factors.current(def.riskFree())
                 .orElseThrow(() -> new FactorBuildException("risk_free factor '" + def.riskFree() + "' does not exist; define and upload it first"));
         return factors.series(rf.factorId(), rf.version(), FactorStore.Leg.SPREAD);
+    }
+
+    /** The spread series of every factor the signal recipe reads (trailing_beta's {@code against}), current versions. */
+    public Map<String, ReturnSeries> signalFactors(FactorDefinition def) throws FactorBuildException {
+        Map<String, ReturnSeries> out = new LinkedHashMap<>();
+        if (def.signal() == null) {
+            return out;
+        }
+        for (String name : def.signal().factors()) {
+            FactorVersionRecord f = factors.current(name).orElseThrow(() -> new FactorBuildException(
+                    "the signal reads factor '" + name + "', which does not exist; define it first"));
+            out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));
+        }
+        return out;
+    }
+
+    /** Whether a definition reads the named factor: as its risk_free rate or inside its signal recipe. */
+    public static boolean dependsOn(FactorDefinition def, String factor) {
+        return def.factorsRead().contains(factor);
+    }
+
+    /**
+     * The versions reordered so that each comes after the versions in the list it reads (risk_free or signal
+     * factors), otherwise in the given order: extending a panel's factors in this order gives every dependent its
+     * dependency's new dates. Definitions cannot form cycles (refused when declared).
+     */
+    public static List<FactorVersionRecord> dependenciesFirst(List<FactorVersionRecord> versions) {
+        Map<String, FactorVersionRecord> byName = new LinkedHashMap<>();
+        versions.forEach(v -> byName.put(v.name(), v));
+        List<FactorVersionRecord> out = new ArrayList<>();
+        java.util.Set<String> placed = new java.util.HashSet<>();
+        for (FactorVersionRecord v : versions) {
+            place(v, byName, placed, new java.util.HashSet<>(), out);
+        }
+        return out;
+    }
+
+    private static void place(FactorVersionRecord v, Map<String, FactorVersionRecord> byName, java.util.Set<String> placed,
+                              java.util.Set<String> visiting, List<FactorVersionRecord> out) {
+        if (placed.contains(v.name()) || !visiting.add(v.name())) {
+            return;
+        }
+        if (!v.method().equals("external")) {
+            FactorDefinition def = definition(v);
+            for (String name : def.factorsRead()) {
+                FactorVersionRecord dependency = byName.get(name);
+                if (dependency != null) {
+                    place(dependency, byName, placed, visiting, out);
+                }
+            }
+        }
+        placed.add(v.name());
+        out.add(v);
     }
 
     static FactorDefinition definition(FactorVersionRecord v) {

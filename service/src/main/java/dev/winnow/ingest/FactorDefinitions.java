@@ -6,6 +6,8 @@ import dev.winnow.construct.DefinitionValidator;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorDefinition.Method;
 import dev.winnow.construct.PanelSchema;
+import dev.winnow.construct.Recipe;
+import dev.winnow.construct.RecipeJson;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.DefineOutcome;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -74,6 +76,9 @@ public final class FactorDefinitions {
         } else if (def.riskFree() != null && factors.current(def.riskFree()).isEmpty()) {
             problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
         }
+        if (def.signal() != null) {
+            checkSignalFactors(name, def, problems);
+        }
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
         }
@@ -90,6 +95,46 @@ public final class FactorDefinitions {
         params.put("factor", name);
         params.put("version", v.version());
         return new Defined(v, true, queue.enqueue(JobKinds.FACTOR_BUILD, params));
+    }
+
+    /**
+     * Every factor a recipe reads must exist, and the factor may not read itself, directly or through the factors it
+     * reads (their risk_free rates and signal recipes).
+     */
+    private void checkSignalFactors(String name, FactorDefinition def, List<String> problems) {
+        RecipeJson.walk(def.signal(), "signal", (recipe, path) -> {
+            if (!(recipe instanceof Recipe.TrailingBeta beta)) {
+                return;
+            }
+            String against = beta.against();
+            String at = path + ".trailing_beta.against";
+            if (against.equals(name)) {
+                problems.add(at + ": a factor cannot read its own returns");
+            } else if (factors.current(against).isEmpty()) {
+                problems.add(at + ": no factor '" + against + "'; define it first (GET /v1/factors lists factors)");
+            } else if (reads(against, name, new java.util.HashSet<>())) {
+                problems.add(at + ": factor '" + against + "' reads '" + name + "' itself (through its risk_free or signal),"
+                        + " so this would be a cycle");
+            }
+        });
+    }
+
+    /** Whether factor {@code from}'s current definition reads {@code target}, directly or transitively. */
+    private boolean reads(String from, String target, java.util.Set<String> seen) {
+        if (!seen.add(from)) {
+            return false;
+        }
+        FactorVersionRecord v = factors.current(from).orElse(null);
+        if (v == null || v.method().equals("external")) {
+            return false;
+        }
+        FactorDefinition def = FactorBuilds.definition(v);
+        for (String n : def.factorsRead()) {
+            if (n.equals(target) || reads(n, target, seen)) {
+                return true;
+            }
+        }
+        return false;
     }
 
     /** The construction engine's view of a panel's stored columns. */

@@ -116,7 +116,7 @@ public final class PanelUploadJob implements JobHandler {
 
     private List<Map<String, Object>> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
         List<Map<String, Object>> updated = new ArrayList<>();
-        for (FactorVersionRecord v : factors.liveOnPanel(panelId)) {
+        for (FactorVersionRecord v : FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId))) {
             Map<String, Object> entry = new LinkedHashMap<>();
             entry.put("factor", v.name());
             entry.put("version", v.version());

@@ -16,7 +16,8 @@ import java.util.Map;
 
 /**
  * Job kind {@code series_upload}: an external series (bond, term, credit, macro, risk-free) uploaded as
- * {@code date,return}; all or nothing. Factors that subtract it as their risk-free rate are rebuilt from their last
+ * {@code date,return}; all or nothing. Factors that subtract it as their risk-free rate (or whose signal recipe
+ * reads it) are rebuilt from their last
  * checkpoint before the upload's first date, after an append as well as a revision: an appended risk-free date can
  * fill market returns that were missing on panel dates already built.
  */
@@ -80,7 +81,7 @@ public final class SeriesUploadJob implements JobHandler {
                 continue;
             }
             FactorDefinition def = FactorBuilds.definition(dependent);
-            if (!riskFreeName.equals(def.riskFree())) {
+            if (!FactorBuilds.dependsOn(def, riskFreeName)) {
                 continue;
             }
             Map<String, Object> entry = new LinkedHashMap<>();
