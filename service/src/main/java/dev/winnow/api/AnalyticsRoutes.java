@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.research.StoredCosts;
 import dev.winnow.stats.CorrelationMatrix;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.DrawdownReport;

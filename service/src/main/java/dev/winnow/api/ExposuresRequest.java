@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.research.LoadingsSettings;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -24,7 +25,7 @@ record ExposuresRequest(PanelRecord panel, LocalDate date, List<String> securiti
         LocalDate date = Requests.dateField(body, "date");
         Holdings holdings = Holdings.of(body, "holdings", true);
         return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), holdings.securities(), holdings.weights(),
-                LoadingsSettings.ofBody(body));
+                LoadingsSettingsForms.ofBody(body));
     }
 
     /** A list of {@code {"security", "weight"}} objects: codes, each once, with finite weights. */

@@ -1,6 +1,10 @@
 package dev.winnow.api;
 
+import dev.winnow.construct.PortfolioExposure;
+import dev.winnow.research.LoadingsService;
 import dev.winnow.stats.FactorCovariance;
+import dev.winnow.stats.PortfolioRisk;
+import dev.winnow.store.PanelStore;
 import dev.winnow.stats.Frequency;
 import dev.winnow.stats.FrequencyConversion;
 import dev.winnow.stats.ReturnSeries;
@@ -16,15 +20,20 @@ import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
 import java.util.Map;
+import java.util.Optional;
 
-/** The risk system's reads: the whole library aligned on dates in one answer, and the factor covariance. */
+/** The risk system's reads: the whole library aligned on dates in one answer, the factor covariance, portfolio risk. */
 final class LibraryRoutes {
     private final FactorStore factors;
     private final ServedResponses served;
+    private final LoadingsService loadings;
+    private final PanelStore panels;
 
-    LibraryRoutes(FactorStore factors, ServedResponses served) {
+    LibraryRoutes(FactorStore factors, PanelStore panels, ServedResponses served, LoadingsService loadings) {
         this.factors = factors;
+        this.panels = panels;
         this.served = served;
+        this.loadings = loadings;
     }
 
     /** {@code GET /v1/returns}: every named factor converted to one frequency, then aligned on dates. */
@@ -115,6 +124,60 @@ final class LibraryRoutes {
             sb.append('\n');
         }
         return sb.toString();
+    }
+
+    /**
+     * {@code POST /v1/risk}: the active weights' exposures from the securities' loadings, F the annualised factor
+     * covariance at the panel's frequency over the last common date at or before the request's date, the specific
+     * variance periods-per-year x sum_i w_i^2 s_i^2 over the securities with loadings, and the decomposition of
+     * {@link PortfolioRisk}.
+     */
+    void risk(Context ctx) {
+        RiskRequest request = RiskRequest.of(ctx, panels);
+        LoadingsService.RiskInputs inputs = loadings.riskInputs(request.panel(), request.date(), request.securities(),
+                request.activeWeights(), request.regression(), source -> ctx.header(LoadingsRoutes.SOURCE_HEADER, source));
+        Frequency frequency = Optional.ofNullable(Frequency.fromWireName(request.panel().frequency())).orElse(Frequency.DAILY);
+        Covariance covariance = Covariance.of(new FactorSet(inputs.versions()).load(factors, Leg.SPREAD, null, request.date(), frequency),
+                request.covariance(), true);
+        double specific = PortfolioRisk.specificVariance(inputs.coveredWeights(), inputs.residualVols(), frequency.periodsPerYear());
+        PortfolioExposure exposure = inputs.exposures().exposure();
+        PortfolioRisk risk;
+        try {
+            risk = PortfolioRisk.of(exposure.exposures(), covariance.estimate().covariance(), specific);
+        } catch (IllegalArgumentException e) {
+            throw ApiProblem.badRequest("The portfolio's risk cannot be decomposed: " + e.getMessage()
+                    + " (active weights all zero, or a covariance that is not positive for these exposures).");
+        }
+        Json.respond(ctx, riskJson(inputs.exposures(), risk));
+    }
+
+    private static Map<String, Object> riskJson(LoadingsService.Exposures answer, PortfolioRisk r) {
+        double[] exposures = answer.exposure().exposures();
+        List<String> names = answer.spec().factors();
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("panel", answer.panel().name());
+        out.put("date", answer.date());
+        out.put("factors", names);
+        out.put("exposures", exposures);
+        out.put("total_volatility", r.totalVolatility());
+        out.put("factor_volatility", r.factorVolatility());
+        out.put("specific_volatility", r.specificVolatility());
+        List<Map<String, Object>> contributions = new ArrayList<>();
+        for (int k = 0; k < exposures.length; k++) {
+            Map<String, Object> c = new LinkedHashMap<>();
+            c.put("factor", names.get(k));
+            c.put("exposure", exposures[k]);
+            c.put("marginal", r.marginal()[k]);
+            c.put("contribution", r.contributions()[k]);
+            c.put("share", r.shares()[k]);
+            contributions.add(c);
+        }
+        out.put("contributions", contributions);
+        out.put("specific_contribution", r.specificContribution());
+        out.put("specific_share", r.specificShare());
+        out.put("coverage", answer.exposure().coverage());
+        out.put("missing", answer.exposure().missingHoldings().stream().map(answer.securities()::get).toList());
+        return out;
     }
 
     /** The sample, the settings and the estimate of one covariance answer. */

@@ -3,14 +3,13 @@ package dev.winnow.api;
 import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.core.StreamWriteFeature;
-import dev.winnow.api.LoadingsService.Characteristic;
-import dev.winnow.api.LoadingsService.Exposures;
-import dev.winnow.api.LoadingsService.History;
-import dev.winnow.api.LoadingsService.Table;
 import dev.winnow.construct.LoadingsSpec;
 import dev.winnow.construct.LoadingsTable;
 import dev.winnow.construct.SecurityLoadingsHistory;
-import dev.winnow.stats.PortfolioRisk;
+import dev.winnow.research.LoadingsService.Characteristic;
+import dev.winnow.research.LoadingsService.Exposures;
+import dev.winnow.research.LoadingsService.History;
+import dev.winnow.research.LoadingsService.Table;
 import dev.winnow.store.LoadingsStore.LoadingsConfig;
 import dev.winnow.store.PanelStore.PanelRecord;
 
@@ -123,35 +122,6 @@ final class LoadingsJson {
     static Map<String, Object> exposures(Exposures answer) {
         Map<String, Object> out = head(answer.panel(), "date", answer.date(), answer.spec());
         out.put("exposures", answer.exposure().exposures());
-        out.put("coverage", answer.exposure().coverage());
-        out.put("missing", answer.exposure().missingHoldings().stream().map(answer.securities()::get).toList());
-        return out;
-    }
-
-    static Map<String, Object> risk(LoadingsService.Risk answer) {
-        PortfolioRisk r = answer.risk();
-        double[] exposures = answer.exposure().exposures();
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("panel", answer.panel().name());
-        out.put("date", answer.date());
-        out.put("factors", answer.factors());
-        out.put("exposures", exposures);
-        out.put("total_volatility", r.totalVolatility());
-        out.put("factor_volatility", r.factorVolatility());
-        out.put("specific_volatility", r.specificVolatility());
-        List<Map<String, Object>> contributions = new ArrayList<>();
-        for (int k = 0; k < exposures.length; k++) {
-            Map<String, Object> c = new LinkedHashMap<>();
-            c.put("factor", answer.factors().get(k));
-            c.put("exposure", exposures[k]);
-            c.put("marginal", r.marginal()[k]);
-            c.put("contribution", r.contributions()[k]);
-            c.put("share", r.shares()[k]);
-            contributions.add(c);
-        }
-        out.put("contributions", contributions);
-        out.put("specific_contribution", r.specificContribution());
-        out.put("specific_share", r.specificShare());
         out.put("coverage", answer.exposure().coverage());
         out.put("missing", answer.exposure().missingHoldings().stream().map(answer.securities()::get).toList());
         return out;

@@ -19,7 +19,7 @@ import java.util.Set;
  * {@code securities} lists them holdings first, then benchmark-only securities, each in request order.
  */
 record RiskRequest(PanelRecord panel, LocalDate date, List<String> securities, double[] activeWeights,
-                   LoadingsSettings regression, CovarianceSettings covariance) {
+                   dev.winnow.research.LoadingsSettings regression, CovarianceSettings covariance) {
 
     static RiskRequest of(Context ctx, PanelStore panels) {
         JsonNode body = Json.readObject(ctx);
@@ -41,7 +41,7 @@ record RiskRequest(PanelRecord panel, LocalDate date, List<String> securities, d
         for (int i = 0; i < weights.length; i++) {
             weights[i] = active.get(securities.get(i));
         }
-        return new RiskRequest(panel, date, securities, weights, LoadingsSettings.ofBody(body),
+        return new RiskRequest(panel, date, securities, weights, LoadingsSettingsForms.ofBody(body),
                 CovarianceSettings.ofBody(body.get("covariance"), date));
     }
 }

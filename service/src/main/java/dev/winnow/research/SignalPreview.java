@@ -8,7 +8,6 @@ import dev.winnow.construct.PanelSchema;
 import dev.winnow.construct.Recipe;
 import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.SignalEvaluator;
-import dev.winnow.ingest.FactorDefinitions;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;

@@ -1,8 +1,8 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
-import dev.winnow.api.TrialLibrary.Snapshot;
-import dev.winnow.api.TrialLibrary.Trial;
 import dev.winnow.construct.DefinitionJson;
+import dev.winnow.research.TrialLibrary.Snapshot;
+import dev.winnow.research.TrialLibrary.Trial;
 import dev.winnow.stats.CalendarPeriods;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.EqualWeightComposite;
@@ -13,7 +13,6 @@ import dev.winnow.stats.ThemeComparison;
 import dev.winnow.stats.TrialStatistics;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
-import io.javalin.http.Context;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
@@ -23,10 +22,10 @@ import java.util.Locale;
 import java.util.Map;
 
 /** Declared themes beside correlation clusters, and a theme's composite series. */
-final class Themes {
+public final class Themes {
     private final FactorStore factors;
 
-    Themes(FactorStore factors) {
+    public Themes(FactorStore factors) {
         this.factors = factors;
     }
 
@@ -35,7 +34,7 @@ final class Themes {
      * linkage on 1 - rho (Pearson, monthly, pairwise complete) cut at {@code threshold}; the others are listed with
      * the reason they could not be clustered.
      */
-    Map<String, Object> comparison(Snapshot library, double threshold) {
+    public Map<String, Object> comparison(Snapshot library, double threshold) {
         List<Trial> live = library.live();
         List<String> clusteredNames = new ArrayList<>();
         List<String> clusteredThemes = new ArrayList<>();
@@ -70,14 +69,12 @@ final class Themes {
         return out;
     }
 
-    /**
-     * The theme's composite: the equal-weight average of its live, ready members' spread returns on the dates all of
-     * them have. Members of different frequencies are first compounded to the coarsest of them; when that is weekly or
-     * coarser, every member's periods are dated by their last calendar day, so that members whose periods end on
-     * different days line up. Then from/to, frequency and form as for a factor's returns; JSON or CSV; an ETag over
-     * every member's data version.
-     */
-    void returns(Context ctx, String theme) {
+    /** A theme's composite series and what it is made of. */
+    public record Composite(String theme, List<String> factors, Frequency frequency, ReturnSeries series) {
+    }
+
+    /** The theme's live members with a series; {@link UnknownNameException} when there is none. */
+    public List<FactorVersionRecord> members(String theme) {
         List<FactorVersionRecord> members = new ArrayList<>();
         for (FactorVersionRecord v : factors.listCurrent(false)) {
             DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
@@ -86,19 +83,20 @@ final class Themes {
             }
         }
         if (members.isEmpty()) {
-            throw ApiProblem.notFound("No live factor with a series declares the theme '" + theme + "'; GET /v1/themes lists the themes.");
+            throw new UnknownNameException("No live factor with a series declares the theme '" + theme + "'; GET /v1/themes lists the themes.");
         }
-        LocalDate from = Requests.dateParam(ctx, "from");
-        LocalDate to = Requests.dateParam(ctx, "to");
-        Requests.checkRange(from, to);
-        Frequency target = SeriesRequest.frequencyParam(ctx);
-        String form = Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period");
-        boolean csv = Responses.wantsCsv(ctx);
-        StringBuilder key = new StringBuilder("theme:").append(theme);
-        members.forEach(v -> key.append(';').append(v.factorId()).append('.').append(v.version()).append('.').append(v.dataVersion()));
-        if (Responses.notModified(ctx, key.toString(), csv)) {
-            return;
-        }
+        return members;
+    }
+
+    /**
+     * The theme's composite: the equal-weight average of its live, ready members' spread returns on the dates all of
+     * them have. Members of different frequencies are first compounded to the coarsest of them; when that is weekly or
+     * coarser, every member's periods are dated by their last calendar day, so that members whose periods end on
+     * different days line up. Then from/to (each may be null), the target frequency (null: the members' own) and the
+     * cumulative form as for a factor's returns.
+     */
+    public Composite composite(String theme, List<FactorVersionRecord> members, LocalDate from, LocalDate to, Frequency target,
+                               boolean cumulative) {
         List<ReturnSeries> series = new ArrayList<>();
         Frequency coarsest = Frequency.DAILY;
         for (FactorVersionRecord v : members) {
@@ -115,27 +113,16 @@ final class Themes {
         Frequency frequency = coarsest;
         if (target != null && target != coarsest) {
             if (target.compareTo(coarsest) < 0) {
-                throw ApiProblem.badRequest("Theme '" + theme + "' is " + coarsest.wireName() + "; it cannot be converted to the finer frequency '"
+                throw new InvalidRequestException("Theme '" + theme + "' is " + coarsest.wireName() + "; it cannot be converted to the finer frequency '"
                         + target.wireName() + "'.");
             }
             composite = FrequencyConversion.compound(composite, target);
             frequency = target;
         }
-        if (form.equals("cumulative")) {
+        if (cumulative) {
             composite = FrequencyConversion.cumulative(composite);
         }
-        if (csv) {
-            Responses.csv(ctx, "date,return", composite.dates(), composite.values());
-            return;
-        }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("theme", theme);
-        out.put("factors", members.stream().map(FactorVersionRecord::name).toList());
-        out.put("frequency", frequency.wireName());
-        out.put("form", form);
-        out.put("dates", composite.dates());
-        out.put("returns", composite.values());
-        Json.respond(ctx, out);
+        return new Composite(theme, members.stream().map(FactorVersionRecord::name).toList(), frequency, composite);
     }
 
     private static Map<String, Object> mapOf(Object... namesAndValues) {

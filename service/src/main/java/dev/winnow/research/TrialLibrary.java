@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.FactorDefinition;
@@ -28,12 +28,12 @@ import java.util.Optional;
  * risk-free rate is never a default regressor of the spanning regression. Each variant's snapshot is reused until any
  * version's status, data version or retirement changes.
  */
-final class TrialLibrary {
+public final class TrialLibrary {
     private final FactorStore factors;
     private volatile Snapshot cachedAll;
     private volatile Snapshot cachedWithoutRiskFree;
 
-    TrialLibrary(FactorStore factors) {
+    public TrialLibrary(FactorStore factors) {
         this.factors = factors;
     }
 
@@ -45,32 +45,32 @@ final class TrialLibrary {
      * @param riskFreeOf   a factor whose definition subtracts this one as its risk-free rate, or null
      * @param riskFreeLeftOut true when the snapshot leaves risk-free rates out of the table
      */
-    record Trial(FactorVersionRecord version, FactorDefinition definition, MonthlyBasis basis, TrialRow row, String note,
+    public record Trial(FactorVersionRecord version, FactorDefinition definition, MonthlyBasis basis, TrialRow row, String note,
                  String riskFreeOf, boolean riskFreeLeftOut) {
-        String name() {
+        public String name() {
             return version.name();
         }
 
-        String theme() {
+        public String theme() {
             return definition == null ? null : definition.theme();
         }
 
-        boolean live() {
+        public boolean live() {
             return version.current() && !version.retired();
         }
 
         /** Not on the monthly basis: quarterly or annual. */
-        boolean excluded() {
+        public boolean excluded() {
             return basis.excluded();
         }
 
         /** True when the version is a trial with a row in the table. */
-        boolean inTable() {
+        public boolean inTable() {
             return !excluded() && !(riskFreeLeftOut && riskFreeOf != null);
         }
 
         /** Why the version is no trial, or null when it is one. */
-        String exclusionReason() {
+        public String exclusionReason() {
             if (excluded()) {
                 return basis.excludedReason();
             }
@@ -78,39 +78,39 @@ final class TrialLibrary {
                     + "' subtracts: a rate every premium is measured against, not a candidate premium";
         }
 
-        ReturnSeries monthly() {
+        public ReturnSeries monthly() {
             return basis.monthly();
         }
 
         /** On the monthly basis with enough months for statistics: usable in correlations and composites. */
-        boolean usable() {
+        public boolean usable() {
             return !excluded() && monthly().size() >= TrialStatistics.MIN_OBSERVATIONS;
         }
 
         /** Usable and not a risk-free rate: a default regressor of the spanning regression. */
-        boolean premium() {
+        public boolean premium() {
             return usable() && riskFreeOf == null;
         }
     }
 
     /** All trials in store order (factor name, then version) with the table's N, V and SR0. */
-    record Snapshot(String key, List<Trial> trials, TrialTable table) {
-        Optional<Trial> find(FactorVersionRecord v) {
+    public record Snapshot(String key, List<Trial> trials, TrialTable table) {
+        public Optional<Trial> find(FactorVersionRecord v) {
             return trials.stream().filter(t -> t.version().factorId() == v.factorId() && t.version().version() == v.version()).findFirst();
         }
 
-        List<Trial> live() {
+        public List<Trial> live() {
             return trials.stream().filter(Trial::live).toList();
         }
     }
 
     /** Every version as a trial, as the rule says. */
-    Snapshot snapshot() {
+    public Snapshot snapshot() {
         return snapshot(false);
     }
 
     /** With {@code leaveOutRiskFree}, risk-free rates are listed as excluded instead of counted as trials. */
-    Snapshot snapshot(boolean leaveOutRiskFree) {
+    public Snapshot snapshot(boolean leaveOutRiskFree) {
         List<FactorVersionRecord> versions = factors.allVersions();
         String key = keyOf(versions);
         Snapshot current = leaveOutRiskFree ? cachedWithoutRiskFree : cachedAll;

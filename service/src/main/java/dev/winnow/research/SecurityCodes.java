@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import java.util.ArrayList;
 import java.util.Comparator;
@@ -10,9 +10,9 @@ import java.util.Map;
  * A panel's security codes as of one data version (new codes only become visible with an upload's commit, which
  * moves the data version), with each id's rank in code order for sorting answers.
  */
-record SecurityCodes(long dataVersion, Map<Integer, String> byId, Map<String, Integer> byCode, int[] rankById) {
+public record SecurityCodes(long dataVersion, Map<Integer, String> byId, Map<String, Integer> byCode, int[] rankById) {
 
-    static SecurityCodes of(long dataVersion, Map<Integer, String> byId) {
+    public static SecurityCodes of(long dataVersion, Map<Integer, String> byId) {
         Map<String, Integer> byCode = new HashMap<>();
         byId.forEach((id, code) -> byCode.put(code, id));
         List<Integer> ids = new ArrayList<>(byId.keySet());
@@ -25,7 +25,7 @@ record SecurityCodes(long dataVersion, Map<Integer, String> byId, Map<String, In
     }
 
     /** Row indices of a table's securities, ordered by security code. */
-    List<Integer> rowsByCode(int[] securityIds) {
+    public List<Integer> rowsByCode(int[] securityIds) {
         List<Integer> rows = new ArrayList<>(securityIds.length);
         for (int i = 0; i < securityIds.length; i++) {
             rows.add(i);

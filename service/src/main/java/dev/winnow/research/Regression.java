@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import dev.winnow.construct.LoadingsSpec;
 import dev.winnow.stats.Frequency;
@@ -14,9 +14,9 @@ import java.util.NoSuchElementException;
 import java.util.Optional;
 
 /** The factors and settings of one request, resolved to current factor versions. */
-record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) {
+public record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) {
 
-    String fingerprint() {
+    public String fingerprint() {
         return LoadingsStore.fingerprint(spec, versions);
     }
 
@@ -24,14 +24,14 @@ record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) {
      * Without factors, the panel's config supplies them (and its window and min_obs unless given); with factors,
      * window and min_obs default by the panel's frequency. Every failure is a problem naming what to send instead.
      */
-    static Regression resolve(PanelRecord panel, LoadingsSettings settings, LoadingsStore loadings, FactorStore factors) {
+    public static Regression resolve(PanelRecord panel, LoadingsSettings settings, LoadingsStore loadings, FactorStore factors) {
         Integer window = settings.window();
         Integer minObs = settings.minObs();
         Frequency frequency = Optional.ofNullable(Frequency.fromWireName(panel.frequency())).orElse(Frequency.DAILY);
         LoadingsSpec spec;
         try {
             if (settings.factors() == null) {
-                LoadingsConfig config = loadings.config(panel.id()).orElseThrow(() -> ApiProblem.badRequest(
+                LoadingsConfig config = loadings.config(panel.id()).orElseThrow(() -> new InvalidRequestException(
                         "Query parameter 'factors' is required: panel '" + panel.name() + "' has no loadings config to take them from."));
                 LoadingsSpec configured = config.spec();
                 int w = window != null ? window : configured.window();
@@ -42,19 +42,19 @@ record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) {
                 spec = LoadingsSpec.withDefaults(settings.factors(), window, minObs, frequency);
             }
         } catch (IllegalArgumentException e) {
-            throw ApiProblem.badRequest("Loadings settings: " + e.getMessage() + ".");
+            throw new InvalidRequestException("Loadings settings: " + e.getMessage() + ".");
         }
         if (spec.window() > panel.dateCount()) {
-            throw ApiProblem.badRequest("Window " + spec.window() + (window == null ? " (the default for " + frequency.wireName()
+            throw new InvalidRequestException("Window " + spec.window() + (window == null ? " (the default for " + frequency.wireName()
                     + " panels)" : "") + " is larger than the " + panel.dateCount() + " dates of panel '" + panel.name()
                     + "'; pass window=" + panel.dateCount() + " or less.");
         }
         try {
             return new Regression(spec, LoadingsFactors.currentVersions(factors, spec.factors()));
         } catch (NoSuchElementException e) {
-            throw ApiProblem.notFound(e.getMessage());
+            throw new UnknownNameException(e.getMessage());
         } catch (IllegalStateException e) {
-            throw ApiProblem.badRequest(e.getMessage());
+            throw new InvalidRequestException(e.getMessage());
         }
     }
 }

@@ -1,9 +1,9 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
-import dev.winnow.api.TrialLibrary.Trial;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.PanelSource;
 import dev.winnow.construct.SegmentRebuild;
+import dev.winnow.research.TrialLibrary.Trial;
 import dev.winnow.stats.EvidenceVerdicts;
 import dev.winnow.stats.EvidenceVerdicts.BreadthTally;
 import dev.winnow.stats.EvidenceVerdicts.Section;
@@ -26,20 +26,20 @@ import java.util.Optional;
  * each segment's series put on the monthly basis. Rebuilding reads the whole panel once per segment (and once more to
  * find a label column's values), so on a large daily panel this section takes as long as that many factor builds.
  */
-final class Breadth {
+public final class Breadth {
     /** Most segments a label column may define; more would mean as many full builds in one request. */
     static final int MAX_SEGMENTS = 50;
 
     private final PanelStore panels;
     private final FactorStore factors;
 
-    Breadth(PanelStore panels, FactorStore factors) {
+    public Breadth(PanelStore panels, FactorStore factors) {
         this.panels = panels;
         this.factors = factors;
     }
 
     /** Answers 400 unless {@code column} is a label column of the factor's panel (nothing to check without a panel). */
-    void checkSegment(Trial trial, String column) {
+    public void checkSegment(Trial trial, String column) {
         Long panelId = trial.version().panelId();
         if (column == null || panelId == null) {
             return;
@@ -47,12 +47,12 @@ final class Breadth {
         Map<String, String> columns = panels.columns(panelId);
         if (!"label".equals(columns.get(column))) {
             List<String> labels = columns.entrySet().stream().filter(e -> "label".equals(e.getValue())).map(Map.Entry::getKey).sorted().toList();
-            throw ApiProblem.badRequest("'segment' must name a label column of the factor's panel; '" + column + "' is not one. "
+            throw new InvalidRequestException("'segment' must name a label column of the factor's panel; '" + column + "' is not one. "
                     + "Label columns: " + (labels.isEmpty() ? "(none)" : String.join(", ", labels)) + ".");
         }
     }
 
-    Map<String, Object> section(Trial trial, String column, double fullMean) {
+    public Map<String, Object> section(Trial trial, String column, double fullMean) {
         FactorDefinition def = trial.definition();
         Long panelId = trial.version().panelId();
         if (def == null || !SegmentRebuild.supports(def) || panelId == null) {
@@ -76,7 +76,7 @@ final class Breadth {
         } else {
             List<String> values = SegmentRebuild.distinctLabels(panel, column);
             if (values.size() > MAX_SEGMENTS) {
-                throw ApiProblem.badRequest("Label column '" + column + "' has " + values.size() + " distinct values; breadth rebuilds the factor "
+                throw new InvalidRequestException("Label column '" + column + "' has " + values.size() + " distinct values; breadth rebuilds the factor "
                         + "once per value, at most " + MAX_SEGMENTS + ". Choose a coarser label column.");
             }
             segments = SegmentRebuild.byLabel(def, panel, riskFree, column, values);
@@ -97,7 +97,7 @@ final class Breadth {
     }
 
     /** The section's numbers with no segment built. */
-    static Map<String, Object> emptyNumbers(String column) {
+    public static Map<String, Object> emptyNumbers(String column) {
         return numbers(column, List.of(), new BreadthTally(0, 0));
     }
 

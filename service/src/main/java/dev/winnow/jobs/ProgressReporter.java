@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.Counters;

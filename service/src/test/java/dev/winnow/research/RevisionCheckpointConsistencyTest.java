@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.research;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -22,6 +22,7 @@ import dev.winnow.store.FactorStore.StoredCheckpoint;
 import dev.winnow.store.FactorStore.StoredReturn;
 import dev.winnow.store.FactorStore.StoredTurnover;
 import dev.winnow.store.JobStore;
+import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsTestStore;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.SecurityDictionary;

@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.research;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import dev.winnow.construct.DefinitionJson;
@@ -16,7 +16,6 @@ import dev.winnow.store.PanelStore.PanelRecord;
 
 import java.util.ArrayList;
 import java.util.HashMap;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -27,9 +26,9 @@ import java.util.Map;
 public final class FactorDefinitions {
     private final FactorStore factors;
     private final PanelStore panels;
-    private final JobQueue queue;
+    private final WorkQueue queue;
 
-    public FactorDefinitions(FactorStore factors, PanelStore panels, JobQueue queue) {
+    public FactorDefinitions(FactorStore factors, PanelStore panels, WorkQueue queue) {
         this.factors = factors;
         this.panels = panels;
         this.queue = queue;
@@ -91,10 +90,7 @@ public final class FactorDefinitions {
             factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
             return new Defined(factors.version(name, v.version()).orElseThrow(), true, null);
         }
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("factor", name);
-        params.put("version", v.version());
-        return new Defined(v, true, queue.enqueue(JobKinds.FACTOR_BUILD, params));
+        return new Defined(v, true, queue.queueFactorBuild(name, v.version()));
     }
 
     /**

@@ -1,7 +1,8 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 

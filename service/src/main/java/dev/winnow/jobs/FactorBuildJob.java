@@ -1,10 +1,12 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
 
 import java.util.LinkedHashMap;
 import java.util.List;

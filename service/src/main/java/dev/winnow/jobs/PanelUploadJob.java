@@ -1,9 +1,18 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
+import dev.winnow.ingest.ColumnType;
+import dev.winnow.ingest.PanelParseResult;
+import dev.winnow.ingest.PanelUpload;
+import dev.winnow.ingest.PanelUploadParser;
+import dev.winnow.ingest.UploadError;
+import dev.winnow.ingest.UploadMode;
+import dev.winnow.ingest.UploadSpool;
+import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import dev.winnow.store.SecurityDictionary;

@@ -1,18 +1,19 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.research.LoadingsSettings;
 import io.javalin.http.Context;
 
 import java.util.ArrayList;
 import java.util.List;
 import java.util.Set;
 
-/**
- * The regression settings a loadings request gives: factors, window and min_obs, each null when left out
- * ({@link Regression#resolve} fills them in from the panel's config or by its frequency).
- */
-record LoadingsSettings(List<String> factors, Integer window, Integer minObs) {
-    private static final int MAX_WINDOW = 100_000;
+import static dev.winnow.research.LoadingsSettings.MAX_WINDOW;
+
+/** {@link LoadingsSettings} read from query parameters or a JSON body. */
+final class LoadingsSettingsForms {
+    private LoadingsSettingsForms() {
+    }
 
     /** From the query parameters {@code factors} (comma-separated), {@code window} and {@code min_obs}. */
     static LoadingsSettings ofQuery(Context ctx) {

@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.research;
 
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.LoadingsSpec;
@@ -62,7 +62,7 @@ class LoadingsRefreshTest {
     void historyJobStoresExactlyWhatIsComputedOnTheFly() {
         store.loadings.saveConfig(panelId, SPEC);
         List<Double> progress = new ArrayList<>();
-        Map<String, Object> report = new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, progress::add);
+        Map<String, Object> report = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, progress::add);
         assertEquals(DATES, report.get("computed_dates"));
         assertEquals(1.0, progress.get(progress.size() - 1));
         assertStoredEqualsOnTheFly(DATES);
@@ -71,7 +71,7 @@ class LoadingsRefreshTest {
     @Test
     void appendComputesTheNewDateAndRestampsTheRest() {
         store.loadings.saveConfig(panelId, SPEC);
-        new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+        new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
         store.upload("harbor-equities", SECURITIES, slices.subList(DATES, DATES + 1), false);
         for (int j = 0; j < 3; j++) {
             store.extendFactor(SPEC.factors().get(j), dates, f[j], DATES, null);
@@ -86,7 +86,7 @@ class LoadingsRefreshTest {
     @Test
     void panelRevisionRecomputesEveryStoredDateWhoseWindowHoldsIt() {
         store.loadings.saveConfig(panelId, SPEC);
-        new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+        new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
         int revised = 35;
         CrossSection old = slices.get(revised);
         double[] returns = old.returns().clone();
@@ -107,7 +107,7 @@ class LoadingsRefreshTest {
     @Test
     void factorRevisionRecomputesOnlyWindowsWhoseFactorReturnsChanged() {
         store.loadings.saveConfig(panelId, SPEC);
-        new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+        new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
         double[] revised = LoadingsTestStore.prefix(f[1], DATES);
         for (int t = 60; t < DATES; t++) {
             revised[t] += 0.002;
@@ -123,7 +123,7 @@ class LoadingsRefreshTest {
     void withoutConfigTheHookSkipsAndAConfigChangeDropsStoredRows() {
         assertEquals("skipped", refresh.afterUpload(panelId, List.of(dates.get(5)), false).get("loadings"));
         store.loadings.saveConfig(panelId, SPEC);
-        new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+        new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
         assertEquals(DATES, store.loadings.stamps(panelId).size());
         store.loadings.saveConfig(panelId, SPEC);
         assertEquals(DATES, store.loadings.stamps(panelId).size(), "saving the same config keeps the rows");

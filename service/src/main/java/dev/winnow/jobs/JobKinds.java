@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
 /** The kinds of job the worker runs. */
 public final class JobKinds {

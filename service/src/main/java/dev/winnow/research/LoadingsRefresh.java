@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.research;
 
 import dev.winnow.construct.FactorGrid;
 import dev.winnow.construct.LoadingsSpec;
@@ -97,7 +97,7 @@ public final class LoadingsRefresh {
      *
      * @throws IllegalStateException when the panel has no config or a configured factor is not ready
      */
-    Map<String, Object> computeHistory(long panelId, DoubleConsumer progress) {
+    public Map<String, Object> computeHistory(long panelId, DoubleConsumer progress) {
         LoadingsConfig config = loadings.config(panelId).orElseThrow(() ->
                 new IllegalStateException("panel " + panelId + " has no loadings config; PUT one first"));
         Inputs in;

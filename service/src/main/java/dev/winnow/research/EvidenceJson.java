@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import dev.winnow.stats.PeriodStatistics;
 import dev.winnow.stats.SectionVerdict;
@@ -10,12 +10,12 @@ import java.util.LinkedHashMap;
 import java.util.Map;
 
 /** The wire form of evidence values (snake_case maps; NaN becomes null when written). */
-final class EvidenceJson {
+public final class EvidenceJson {
     private EvidenceJson() {
     }
 
     /** A row of {@code GET /v1/evidence}: the trial and its row of the table. */
-    static Map<String, Object> row(TrialLibrary.Trial trial, TrialRow row) {
+    public static Map<String, Object> row(TrialLibrary.Trial trial, TrialRow row) {
         TrialStatistics s = row.statistics();
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factor", trial.name());
@@ -40,7 +40,7 @@ final class EvidenceJson {
     }
 
     /** A version that is no trial, with the reason. */
-    static Map<String, Object> excluded(TrialLibrary.Trial trial) {
+    public static Map<String, Object> excluded(TrialLibrary.Trial trial) {
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factor", trial.name());
         out.put("version", trial.version().version());
@@ -51,7 +51,7 @@ final class EvidenceJson {
         return out;
     }
 
-    static Map<String, Object> period(PeriodStatistics p) {
+    public static Map<String, Object> period(PeriodStatistics p) {
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("from", p.from());
         out.put("to", p.to());
@@ -65,7 +65,7 @@ final class EvidenceJson {
      * A section: its numbers, then verdict, thresholds and reason. When the version cannot be judged at all
      * ({@code unavailable} not null: not ready, or no trial), the verdict is not_enough_data with that reason.
      */
-    static Map<String, Object> section(Map<String, Object> numbers, SectionVerdict verdict, String unavailable) {
+    public static Map<String, Object> section(Map<String, Object> numbers, SectionVerdict verdict, String unavailable) {
         Map<String, Object> out = new LinkedHashMap<>(numbers);
         out.put("verdict", unavailable == null ? verdict.verdict().wireName() : Verdict.NOT_ENOUGH_DATA.wireName());
         out.put("thresholds", verdict.thresholds());

@@ -1,11 +1,11 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import java.time.LocalDate;
 import java.util.Collections;
 import java.util.List;
 
 /** Positions of dates on a panel's grid (its distinct dates, ascending). */
-final class PanelDates {
+public final class PanelDates {
     private PanelDates() {
     }
 
@@ -26,7 +26,7 @@ final class PanelDates {
         } else {
             nearest = "the nearest dates are " + grid.get(next - 1) + " and " + grid.get(next);
         }
-        throw ApiProblem.badRequest("Date " + date + " is not a date of panel '" + panelName + "': " + nearest + ".");
+        throw new InvalidRequestException("Date " + date + " is not a date of panel '" + panelName + "': " + nearest + ".");
     }
 
     /** Index of the first grid date on or after {@code date} (the grid's size when there is none). */

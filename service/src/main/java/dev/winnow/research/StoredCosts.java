@@ -1,4 +1,4 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.stats.TradingCosts;
@@ -10,12 +10,12 @@ import java.time.LocalDate;
 import java.util.List;
 
 /** {@link TradingCosts} of a stored factor version: its gross spread series and its formations' turnover. */
-final class StoredCosts {
+public final class StoredCosts {
     private StoredCosts() {
     }
 
     /** Costs of the stretch first..last of the version's series. */
-    static TradingCosts of(FactorStore factors, FactorVersionRecord v, LocalDate first, LocalDate last) {
+    public static TradingCosts of(FactorStore factors, FactorVersionRecord v, LocalDate first, LocalDate last) {
         ReturnSeries gross = factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD);
         List<StoredTurnover> turnover = factors.turnover(v.factorId(), v.version());
         return TradingCosts.of(gross, turnover.stream().map(StoredTurnover::formationDate).toList(),

@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.research;
 
 import dev.winnow.construct.BuildResult;
 import dev.winnow.construct.CheckpointedBuild;
@@ -15,6 +15,7 @@ import dev.winnow.store.FactorStore.StoredBuild;
 import dev.winnow.store.FactorStore.StoredCheckpoint;
 import dev.winnow.store.FactorStore.StoredReturn;
 import dev.winnow.store.FactorStore.StoredTurnover;
+import dev.winnow.store.JsonText;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.StorePanelSource;
 
@@ -222,7 +223,7 @@ public final class FactorBuilds {
         out.add(v);
     }
 
-    static FactorDefinition definition(FactorVersionRecord v) {
+    public static FactorDefinition definition(FactorVersionRecord v) {
         DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
         if (!parsed.ok()) {
             throw new IllegalStateException("stored definition of " + v.name() + " v" + v.version() + " is unreadable: " + parsed.problems());

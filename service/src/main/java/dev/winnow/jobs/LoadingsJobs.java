@@ -1,9 +1,8 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
-import dev.winnow.store.FactorStore;
+import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.store.JobStore.Counters;
-import dev.winnow.store.LoadingsStore;
-import dev.winnow.store.PanelStore;
+import dev.winnow.store.JsonText;
 
 import java.util.LinkedHashMap;
 import java.util.Map;
@@ -16,8 +15,8 @@ public final class LoadingsJobs {
 
     private final LoadingsRefresh refresh;
 
-    public LoadingsJobs(PanelStore panels, FactorStore factors, LoadingsStore loadings) {
-        this.refresh = new LoadingsRefresh(panels, factors, loadings);
+    public LoadingsJobs(LoadingsRefresh refresh) {
+        this.refresh = refresh;
     }
 
     /** The job parameters for a panel. */

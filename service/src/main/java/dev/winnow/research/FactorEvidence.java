@@ -1,8 +1,8 @@
-package dev.winnow.api;
+package dev.winnow.research;
 
-import dev.winnow.api.TrialLibrary.Snapshot;
-import dev.winnow.api.TrialLibrary.Trial;
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.research.TrialLibrary.Snapshot;
+import dev.winnow.research.TrialLibrary.Trial;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.EqualWeightComposite;
 import dev.winnow.stats.EvidenceVerdicts;
@@ -28,11 +28,11 @@ import java.util.Map;
  * One factor version's evidence, section by section, as the body of {@code GET /v1/factors/{f}/evidence}. All
  * sections use monthly returns; the verdict rules and thresholds are those of {@link EvidenceVerdicts}.
  */
-final class FactorEvidence {
+public final class FactorEvidence {
     private final FactorStore factors;
     private final Breadth breadth;
 
-    FactorEvidence(FactorStore factors, Breadth breadth) {
+    public FactorEvidence(FactorStore factors, Breadth breadth) {
         this.factors = factors;
         this.breadth = breadth;
     }
@@ -41,7 +41,7 @@ final class FactorEvidence {
      * @param segmentColumn label column for breadth, or null for the size halves (already checked by the caller)
      * @param against       the factors of the spanning regression (already resolved by {@link #against})
      */
-    Map<String, Object> report(Trial trial, Snapshot library, String segmentColumn, List<Trial> against) {
+    public Map<String, Object> report(Trial trial, Snapshot library, String segmentColumn, List<Trial> against) {
         String unavailable = unavailable(trial);
         ReturnSeries monthly = trial.monthly();
         PeriodStatistics full = PeriodStatistics.of(monthly);
@@ -72,7 +72,7 @@ final class FactorEvidence {
      * or by default every other live factor with at least min_months months in common with this one, risk-free rates
      * left out (a near-constant regressor is almost collinear with the intercept).
      */
-    static List<Trial> against(Trial trial, Snapshot library, List<String> named) {
+    public static List<Trial> against(Trial trial, Snapshot library, List<String> named) {
         List<Trial> live = library.live();
         List<Trial> out = new ArrayList<>();
         if (named == null) {
@@ -85,16 +85,16 @@ final class FactorEvidence {
             return out;
         }
         if (named.stream().distinct().count() != named.size()) {
-            throw ApiProblem.badRequest("Query parameter 'against' names a factor twice; list each once.");
+            throw new InvalidRequestException("Query parameter 'against' names a factor twice; list each once.");
         }
         for (String name : named) {
             if (name.equals(trial.name())) {
-                throw ApiProblem.badRequest("'against' names the factor itself; list the other factors to regress it on.");
+                throw new InvalidRequestException("'against' names the factor itself; list the other factors to regress it on.");
             }
             Trial other = live.stream().filter(t -> t.name().equals(name)).findFirst()
-                    .orElseThrow(() -> ApiProblem.badRequest("'against' names '" + name + "', which is not a live factor; GET /v1/factors lists them."));
+                    .orElseThrow(() -> new InvalidRequestException("'against' names '" + name + "', which is not a live factor; GET /v1/factors lists them."));
             if (other.excluded()) {
-                throw ApiProblem.badRequest("'against' names '" + name + "': " + other.basis().excludedReason() + ".");
+                throw new InvalidRequestException("'against' names '" + name + "': " + other.basis().excludedReason() + ".");
             }
             out.add(other);
         }

@@ -1,12 +1,18 @@
-package dev.winnow.ingest;
+package dev.winnow.jobs;
 
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.ingest.ExternalSeriesParser;
+import dev.winnow.ingest.SeriesParseResult;
+import dev.winnow.ingest.UploadMode;
+import dev.winnow.ingest.UploadSpool;
+import dev.winnow.research.FactorBuilds;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.StoredReturn;
 import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
 
 import java.time.LocalDate;
 import java.util.ArrayList;

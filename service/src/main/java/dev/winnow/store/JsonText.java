@@ -1,4 +1,4 @@
-package dev.winnow.ingest;
+package dev.winnow.store;
 
 import com.fasterxml.jackson.core.type.TypeReference;
 import com.fasterxml.jackson.databind.ObjectMapper;
