@@ -6,6 +6,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
@@ -40,7 +41,8 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
+                               FactorHoldings holdings) {
     }
 
     private ApiServer() {
@@ -60,6 +62,7 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
+        HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
@@ -95,6 +98,7 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
@@ -105,6 +109,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
