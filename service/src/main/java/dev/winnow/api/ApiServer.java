@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
@@ -72,6 +73,10 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
+            config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
+            config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
+            config.routes.before(Requests::checkQueryEscapes);
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
@@ -80,6 +85,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);

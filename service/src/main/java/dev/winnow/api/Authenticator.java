@@ -107,7 +107,7 @@ public final class Authenticator {
 
     static Scope requiredScope(Context ctx) {
         String path = ctx.path();
-        if (path.startsWith("/v1/tokens")) {
+        if (path.startsWith("/v1/tokens") || path.startsWith("/v1/admin/")) {
             return Scope.ADMIN;
         }
         HandlerType method = ctx.method();

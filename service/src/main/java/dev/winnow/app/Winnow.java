@@ -52,7 +52,7 @@ public final class Winnow implements AutoCloseable {
     private final DemoLoader demo;
 
     private Winnow(Config config) throws IOException {
-        Files.createDirectories(config.dataDir());
+        requireWritable(config.dataDir());
         this.database = Database.open(config.dbUrl(), config.dbPool(), null);
         this.jdbi = database.jdbi();
         ChangeFeed changes = new LocalChangeFeed();
@@ -82,7 +82,7 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         this.worker = new JobWorker(jobs, handlers);
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
@@ -110,6 +110,28 @@ public final class Winnow implements AutoCloseable {
         boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
         String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
         return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
+    }
+
+    /** The data directory cannot be created or written; Main prints the message as one line and exits 1. */
+    public static final class DataDirectoryNotWritableException extends IllegalStateException {
+        DataDirectoryNotWritableException(String message) {
+            super(message);
+        }
+    }
+
+    /** Creates the data directory if needed and proves it can be written, before the store opens there. */
+    private static void requireWritable(java.nio.file.Path dir) {
+        try {
+            Files.createDirectories(dir);
+            java.nio.file.Path probe = Files.createTempFile(dir, ".write-check", ".tmp");
+            Files.delete(probe);
+        } catch (IOException | SecurityException e) {
+            String why = e instanceof java.nio.file.AccessDeniedException ? "permission denied"
+                    : e instanceof java.nio.file.FileSystemException fse && fse.getReason() != null ? fse.getReason()
+                    : e.getClass().getSimpleName();
+            throw new DataDirectoryNotWritableException("cannot write to the data directory " + dir + " (" + why
+                    + "); set WINNOW_DATA_DIR to a directory this user can write");
+        }
     }
 
     public static Winnow start(Config config) throws IOException {

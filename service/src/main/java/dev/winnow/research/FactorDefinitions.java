@@ -53,6 +53,10 @@ public final class FactorDefinitions {
     }
 
     public Defined define(String name, JsonNode body) throws InvalidDefinitionException {
+        List<String> tooLong = DefinitionTextLimits.problems(body);
+        if (!tooLong.isEmpty()) {
+            throw new InvalidDefinitionException(tooLong);
+        }
         DefinitionJson.Parsed parsed = DefinitionJson.read(body);
         if (!parsed.ok()) {
             throw new InvalidDefinitionException(parsed.problems());
@@ -84,7 +88,12 @@ public final class FactorDefinitions {
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
         }
-        DefineOutcome outcome = factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
+        String canonical = DefinitionJson.toCanonicalString(def);
+        if (canonical.length() > dev.winnow.store.Limits.MAX_DEFINITION_CHARS) {
+            throw new InvalidDefinitionException(List.of("the definition is " + canonical.length() + " characters long once "
+                    + "written out; at most " + dev.winnow.store.Limits.MAX_DEFINITION_CHARS + " are kept: shorten the rationale or the signal"));
+        }
+        DefineOutcome outcome = factors.define(name, canonical, DefinitionJson.wire(def.method()), panelId);
         FactorVersionRecord v = outcome.version();
         if (!outcome.created()) {
             return new Defined(v, false, null);

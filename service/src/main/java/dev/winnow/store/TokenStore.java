@@ -54,6 +54,33 @@ public final class TokenStore {
         return changed;
     }
 
+    /** What {@link #revoke} did. */
+    public enum Revocation {
+        REVOKED, NOT_FOUND, LAST_ADMIN
+    }
+
+    /**
+     * Deletes a token unless it is the last admin token (which would lock every admin out until a restart). The
+     * admin rows are locked for the check, so two concurrent revocations cannot remove the last two admins.
+     */
+    public synchronized Revocation revoke(String name) {
+        Revocation outcome = revokeInTransaction(name);
+        announced(outcome == Revocation.REVOKED);
+        return outcome;
+    }
+
+    private Revocation revokeInTransaction(String name) {
+        return jdbi.inTransaction(h -> {
+            List<String> admins = h.createQuery("SELECT name FROM api_tokens WHERE scope = 'admin' ORDER BY name FOR UPDATE")
+                    .mapTo(String.class).list();
+            if (admins.size() == 1 && admins.get(0).equals(name)) {
+                return Revocation.LAST_ADMIN;
+            }
+            int deleted = h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute();
+            return deleted > 0 ? Revocation.REVOKED : Revocation.NOT_FOUND;
+        });
+    }
+
     public boolean delete(String name) {
         return announced(jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0);
     }
