@@ -71,6 +71,10 @@ public final class FactorDefinitions {
 
     /** Reads and checks a definition for factor {@code name}; every problem is listed. */
     public Checked check(String name, JsonNode body) throws InvalidDefinitionException {
+        List<String> tooLong = DefinitionTextLimits.problems(body);
+        if (!tooLong.isEmpty()) {
+            throw new InvalidDefinitionException(tooLong);
+        }
         DefinitionJson.Parsed parsed = DefinitionJson.read(body);
         if (!parsed.ok()) {
             throw new InvalidDefinitionException(parsed.problems());
@@ -101,6 +105,11 @@ public final class FactorDefinitions {
         }
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
+        }
+        String canonical = DefinitionJson.toCanonicalString(def);
+        if (canonical.length() > dev.winnow.store.Limits.MAX_DEFINITION_CHARS) {
+            throw new InvalidDefinitionException(List.of("the definition is " + canonical.length() + " characters long once "
+                    + "written out; at most " + dev.winnow.store.Limits.MAX_DEFINITION_CHARS + " are kept: shorten the rationale or the signal"));
         }
         return new Checked(def, panelId);
     }
