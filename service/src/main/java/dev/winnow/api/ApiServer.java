@@ -6,6 +6,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
@@ -38,7 +39,7 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios) {
     }
 
     private ApiServer() {
@@ -56,7 +57,7 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
-        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -109,6 +110,7 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.get("/v1/factors/{factor}/portfolios", crossSection::portfolios);
             config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
             config.routes.get("/v1/model-tests", crossSection::modelTests);
 

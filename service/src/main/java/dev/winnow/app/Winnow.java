@@ -11,6 +11,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
@@ -84,7 +85,8 @@ public final class Winnow implements AutoCloseable {
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors))), config.bind(), config.port());
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors)),
+                config.bind(), config.port());
     }
 
     public static Winnow start(Config config) throws IOException {

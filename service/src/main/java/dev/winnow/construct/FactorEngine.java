@@ -62,6 +62,14 @@ public final class FactorEngine {
         return new Run(def, panel, dates, riskFree, signalFactors, resume).execute();
     }
 
+    /** The names of the portfolios a definition's builds store, in order (empty for market and external). */
+    public static List<String> portfolioNames(FactorDefinition def) {
+        if (def.method() == null || def.method() == FactorDefinition.Method.EXTERNAL) {
+            return List.of();
+        }
+        return PortfolioRule.of(def).portfolios().stream().map(PortfolioRule.Portfolio::name).toList();
+    }
+
     private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
         if (!state.definitionKey().equals(def.constructionKey())) {
             throw new IllegalArgumentException("resume state was built for another definition; rebuild from scratch");
@@ -88,6 +96,8 @@ public final class FactorEngine {
         private Holding[] book;
         private final List<FactorObservation> observations = new ArrayList<>();
         private final List<Formation> formations = new ArrayList<>();
+        private final List<PortfolioObservation> portfolioObservations = new ArrayList<>();
+        private final List<PortfolioRule.Portfolio> portfolios;
         private int withoutReturn;
 
         Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
@@ -96,6 +106,7 @@ public final class FactorEngine {
             this.dates = dates;
             this.riskFree = riskFree == null ? null : byDate(riskFree);
             this.rule = PortfolioRule.of(def);
+            this.portfolios = rule.portfolios();
             this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
             this.lag = def.effectiveLag();
             this.signal = def.signal() == null ? null : new SignalEvaluator(def.signal(), signalFactors, lag - 1);
@@ -137,7 +148,7 @@ public final class FactorEngine {
             }
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
-            return new BuildResult(observations, formations, end, withoutReturn);
+            return new BuildResult(observations, formations, end, withoutReturn, portfolioObservations);
         }
 
         private CrossSection read(int index) {
@@ -170,6 +181,17 @@ public final class FactorEngine {
                 withoutReturn++;
             } else {
                 observations.add(new FactorObservation(rows.date(), spread, longLeg, shortLeg, spread - cost));
+            }
+            if (!portfolios.isEmpty()) {
+                double[] returns = new double[portfolios.size()];
+                boolean any = false;
+                for (int k = 0; k < returns.length; k++) {
+                    returns[k] = legMean(subReturns, portfolios.get(k).subs());
+                    any |= !Double.isNaN(returns[k]);
+                }
+                if (any) {
+                    portfolioObservations.add(new PortfolioObservation(rows.date(), returns));
+                }
             }
         }
 
