@@ -19,6 +19,8 @@ import dev.winnow.stats.InsufficientDataException;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorageFaultLog;
+import dev.winnow.store.StorageFaults;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
@@ -39,7 +41,8 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
+                               Health.Check health) {
     }
 
     private ApiServer() {
@@ -67,7 +70,10 @@ public final class ApiServer {
             config.http.prefer405over404 = true;
 
             config.routes.before(auth::check);
-            config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/health", ctx -> {
+                Health health = d.health().now();
+                Json.respond(ctx, health.serving() ? 200 : 503, health);
+            });
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
@@ -133,9 +139,23 @@ public final class ApiServer {
                 e.getMessage(), messages(e.problems())));
         config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
                 e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.UploadTooLargeException.class, (e, ctx) -> problem(ctx, 413, "Content too large",
+                e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
+                e.getMessage(), java.util.List.of()));
         config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                 detailOf(e, ctx), java.util.List.of()));
         config.routes.exception(Exception.class, (e, ctx) -> {
+            if (StorageFaults.isStorageFault(e)) {
+                StorageFaultLog.note(LOG, ctx.method() + " " + ctx.path(), e);
+                boolean full = StorageFaults.isDiskFull(e);
+                ctx.header("Retry-After", "30");
+                problem(ctx, full ? 507 : 503, full ? "Insufficient storage" : "Service unavailable",
+                        (full ? "The disk holding the store is full" : "The store cannot be used right now")
+                                + "; nothing was changed by this request. Try again once the operator has fixed the "
+                                + "storage (GET /health tells when the store is back).", java.util.List.of());
+                return;
+            }
             LOG.error("unexpected error on {} {}", ctx.method(), ctx.path(), e);
             problem(ctx, 500, "Internal server error", "The server failed while handling this request; the error was logged. "
                     + "Nothing was changed by it unless a job id was returned.", java.util.List.of());

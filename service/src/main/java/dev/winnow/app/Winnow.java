@@ -2,6 +2,7 @@ package dev.winnow.app;
 
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
+import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.jobs.JobHandler;
 import dev.winnow.jobs.JobKinds;
@@ -57,7 +58,7 @@ public final class Winnow implements AutoCloseable {
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi);
         LoadingsStore loadings = new LoadingsStore(jdbi);
-        UploadSpool spool = new UploadSpool(config.dataDir());
+        UploadSpool spool = new UploadSpool(config.dataDir(), config.limits());
 
         int discarded = panels.discardAllStaging();
         int requeued = jobs.requeueInterrupted();
@@ -85,8 +86,27 @@ public final class Winnow implements AutoCloseable {
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors)),
-                config.bind(), config.port());
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
+                () -> health(jobs, spool)), config.bind(), config.port());
+    }
+
+    /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
+    private Health health(JobStore jobs, UploadSpool spool) {
+        JobStore.QueueCounts queue = null;
+        String store;
+        try {
+            queue = jobs.queueCounts();
+            store = spool.hasMinimumFreeSpace() ? "ok" : "low_space";
+        } catch (RuntimeException e) {
+            store = "unavailable";
+        }
+        JobWorker.State state = worker.state();
+        if (state == JobWorker.State.WAITING_FOR_STORE) {
+            store = "unavailable";
+        }
+        boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
+        String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
+        return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
     }
 
     public static Winnow start(Config config) throws IOException {
