@@ -48,6 +48,14 @@ PORTFOLIO_CASES = [
      "definition": {"method": "sort", "signal": "noise", "buckets": 3, "weighting": "cap", "lag": 2,
                     "rebalance": "quarterly", "direction": "low_minus_high",
                     "universe": {"labels": {"sector": {"exclude": ["C"]}}}}},
+    {"id": "value_within", "spec": "method=sort;signal=value;buckets=3;weighting=equal;lag=1;rebalance=monthly",
+     "within": "sector",
+     "definition": {"method": "sort", "signal": "value", "buckets": 3, "weighting": "equal", "rebalance": "monthly",
+                    "within": "sector"}},
+    {"id": "value_control", "spec": "method=sort;signal=value;buckets=3;weighting=cap;lag=1;rebalance=every_period",
+     "control": ("momentum", 2),
+     "definition": {"method": "sort", "signal": "value", "buckets": 3, "weighting": "cap",
+                    "control": {"signal": "momentum", "buckets": 2}}},
     {"id": "value_2x3", "spec": "method=size_sort;signal=value;weighting=cap;lag=1;rebalance=every_period;output=signal",
      "definition": {"method": "size_sort", "signal": "value", "weighting": "cap", "output": "signal"}},
 ]
@@ -180,6 +188,44 @@ def information_coefficients(panel, dates, case):
     return {"dates": [d.date().isoformat() for d in dates], "ic": ic, "summary": summary}
 
 
+def sort_into(frame, signal, b):
+    """Rows of frame by bucket 1..b: type-7 breakpoints (numpy 'linear') at j/b of frame's signal, ties low."""
+    cuts = np.quantile(frame[signal].to_numpy(), np.arange(1, b) / b)
+    bucket = 1 + (frame[signal].to_numpy()[:, None] > cuts[None, :]).sum(axis=1)
+    return {j: frame[bucket == j] for j in range(1, b + 1)}
+
+
+def within_buckets(xs, spec, column, names):
+    """Breakpoints inside each label group with at least b eligible members; bucket j pools every group's bucket j."""
+    elig = xs[construction.eligible_mask(xs, spec) & xs[column].notna()]
+    pooled = {j: [] for j in range(1, spec["buckets"] + 1)}
+    for _, group in elig.groupby(column):
+        if len(group) < spec["buckets"]:
+            continue
+        for j, members in sort_into(group, spec["signal"], spec["buckets"]).items():
+            pooled[j].append(members)
+    out = {}
+    for j, name in zip(range(1, spec["buckets"] + 1), names):
+        members = pd.concat(pooled[j]) if pooled[j] else elig.iloc[0:0]
+        out[name] = construction.weights_of(members, spec) if len(members) else pd.Series(dtype=float)
+    return out
+
+
+def control_buckets(xs, spec, control, names):
+    """Dependent double sort: c control buckets, then b signal buckets inside each; bucket j lists its c portfolios."""
+    column, c = control
+    elig = xs[construction.eligible_mask(xs, spec) & np.isfinite(xs[column])]
+    out = {name: [pd.Series(dtype=float)] * c for name in names}
+    if len(elig) == 0:
+        return out
+    for i, inside in sort_into(elig, column, c).items():
+        if len(inside) == 0:
+            continue
+        for j, members in sort_into(inside, spec["signal"], spec["buckets"]).items():
+            out[names[j - 1]][i - 1] = construction.weights_of(members, spec) if len(members) else pd.Series(dtype=float)
+    return out
+
+
 def bucket_portfolios(panel, dates, case):
     """Every bucket (sort) or each of the six (size_sort), held by the construction rules (drift, members leaving)."""
     spec = construction.parse_spec(case["spec"])
@@ -192,7 +238,11 @@ def bucket_portfolios(panel, dates, case):
         if row_index < 0:
             continue
         xs = panel[panel["date"] == dates[row_index]].set_index("security")
-        if spec["method"] == "sort":
+        if "within" in case:
+            subs = within_buckets(xs, spec, case["within"], names)
+        elif "control" in case:
+            subs = control_buckets(xs, spec, case["control"], names)
+        elif spec["method"] == "sort":
             elig = xs[construction.eligible_mask(xs, spec)]
             bp = construction.breakpoint_set(elig, spec)
             subs = {name: pd.Series(dtype=float) for name in names}
@@ -209,7 +259,10 @@ def bucket_portfolios(panel, dates, case):
         end = points[i + 1] if i + 1 < len(points) else len(dates) - 1
         periods = dates[point + 1:end + 1]
         for name, weights in subs.items():
-            port, _ = construction.hold(weights, returns, periods)
+            if isinstance(weights, list):  # a control sort's bucket: the mean of its c portfolios, none if any has none
+                port = pd.concat([construction.hold(w, returns, periods)[0] for w in weights], axis=1).mean(axis=1, skipna=False)
+            else:
+                port, _ = construction.hold(weights, returns, periods)
             for d in periods:
                 if not np.isnan(port[d]):
                     out[name][d.date().isoformat()] = float(port[d])

@@ -7,6 +7,7 @@ import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.FactorPortfolios;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
@@ -42,7 +43,7 @@ public final class ApiServer {
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
-                               Health.Check health) {
+                               Health.Check health, FactorHoldings holdings) {
     }
 
     private ApiServer() {
@@ -60,6 +61,7 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
+        HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios());
 
         return Javalin.create(config -> {
@@ -95,6 +97,7 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
@@ -103,6 +106,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);

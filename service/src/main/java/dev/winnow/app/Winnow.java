@@ -18,6 +18,7 @@ import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
@@ -87,7 +88,7 @@ public final class Winnow implements AutoCloseable {
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
-                () -> health(jobs, spool)), config.bind(), config.port());
+                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port());
     }
 
     /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */

@@ -35,11 +35,7 @@ final class BucketSortRule implements PortfolioRule {
             Arrays.setAll(held, j -> Holding.empty());
             return held;
         }
-        double[] sorted = Eligibility.sortedValues(signal, breakpointRows);
-        double[] cuts = new double[buckets - 1];
-        for (int j = 1; j < buckets; j++) {
-            cuts[j - 1] = Quantiles.type7Sorted(sorted, j / (double) buckets);
-        }
+        double[] cuts = cuts(signal, breakpointRows, buckets);
         int[][] members = new int[buckets][eligible.length];
         int[] counts = new int[buckets];
         for (int i : eligible) {
@@ -50,6 +46,43 @@ final class BucketSortRule implements PortfolioRule {
             held[j] = Holding.of(rows, Arrays.copyOf(members[j], counts[j]), capWeighted);
         }
         return held;
+    }
+
+    /** The B-1 breakpoints: type-7 quantiles at j/B (j = 1..B-1) of the signal over {@code rows}. */
+    static double[] cuts(double[] signal, int[] rows, int buckets) {
+        double[] sorted = Eligibility.sortedValues(signal, rows);
+        double[] cuts = new double[buckets - 1];
+        for (int j = 1; j < buckets; j++) {
+            cuts[j - 1] = Quantiles.type7Sorted(sorted, j / (double) buckets);
+        }
+        return cuts;
+    }
+
+    /**
+     * Every bucket of a sort of {@code rows} into B buckets on breakpoints from those same rows: members[j-1] holds
+     * the rows of bucket j, in the given order.
+     */
+    static int[][] bucketsOf(double[] signal, int[] rows, int buckets) {
+        double[] cuts = cuts(signal, rows, buckets);
+        int[][] members = new int[buckets][rows.length];
+        int[] counts = new int[buckets];
+        for (int row : rows) {
+            int j = bucketOf(signal[row], cuts) - 1;
+            members[j][counts[j]++] = row;
+        }
+        for (int j = 0; j < buckets; j++) {
+            members[j] = Arrays.copyOf(members[j], counts[j]);
+        }
+        return members;
+    }
+
+    /** Buckets "1".."B", bucket j being sub-portfolio j-1 (the layout of this rule and of the within sort). */
+    static List<Portfolio> namedBuckets(int buckets) {
+        List<Portfolio> out = new ArrayList<>(buckets);
+        for (int j = 0; j < buckets; j++) {
+            out.add(new Portfolio(String.valueOf(j + 1), new int[] {j}));
+        }
+        return out;
     }
 
     static int bucketOf(double value, double[] cuts) {
@@ -74,10 +107,6 @@ final class BucketSortRule implements PortfolioRule {
 
     @Override
     public List<Portfolio> portfolios() {
-        List<Portfolio> out = new ArrayList<>(buckets);
-        for (int j = 0; j < buckets; j++) {
-            out.add(new Portfolio(String.valueOf(j + 1), new int[] {j}));
-        }
-        return out;
+        return namedBuckets(buckets);
     }
 }

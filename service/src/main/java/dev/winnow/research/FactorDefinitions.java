@@ -76,7 +76,10 @@ public final class FactorDefinitions {
             problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
         }
         if (def.signal() != null) {
-            checkSignalFactors(name, def, problems);
+            checkSignalFactors(name, def.signal(), "signal", problems);
+        }
+        if (def.control() != null && def.control().signal() != null) {
+            checkSignalFactors(name, def.control().signal(), "control.signal", problems);
         }
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
@@ -97,8 +100,8 @@ public final class FactorDefinitions {
      * Every factor a recipe reads must exist, and the factor may not read itself, directly or through the factors it
      * reads (their risk_free rates and signal recipes).
      */
-    private void checkSignalFactors(String name, FactorDefinition def, List<String> problems) {
-        RecipeJson.walk(def.signal(), "signal", (recipe, path) -> {
+    private void checkSignalFactors(String name, Recipe signal, String root, List<String> problems) {
+        RecipeJson.walk(signal, root, (recipe, path) -> {
             if (!(recipe instanceof Recipe.TrailingBeta beta)) {
                 return;
             }
