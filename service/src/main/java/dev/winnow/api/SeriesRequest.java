@@ -59,7 +59,7 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
 
     /** The stored series with the date range and frequency of the request applied. */
     Resolved load(FactorStore factors) {
-        return convert(version.name(), factors.series(version.factorId(), version.version(), leg), from, to, targetFrequency);
+        return convert(version.name(), factors.series(version, leg), from, to, targetFrequency);
     }
 
     /** A stored series (named {@code name} in problems) with a date range and a target frequency (null: native) applied. */

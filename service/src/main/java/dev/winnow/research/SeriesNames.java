@@ -38,11 +38,11 @@ public final class SeriesNames {
     public Resolved resolve(String name, String parameter) {
         int colon = name.lastIndexOf(':');
         String factor = colon < 0 ? name : name.substring(0, colon);
-        FactorVersionRecord v = factors.current(factor)
+        FactorVersionRecord v = factors.catalog().current(factor)
                 .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + factor + "' in '" + parameter
                         + "'; GET /v1/factors lists them."));
         if (colon < 0) {
-            return new Resolved(name, v, null, factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD));
+            return new Resolved(name, v, null, factors.series(v, FactorStore.Leg.SPREAD));
         }
         String portfolio = name.substring(colon + 1);
         List<String> names = portfolioNames(v);
