@@ -247,12 +247,17 @@ public final class FactorStore {
     public void makeCurrent(long factorId, int version) {
         jdbi.useHandle(h -> h.createUpdate("UPDATE factors SET current_version = :v WHERE id = :f")
                 .bind("v", version).bind("f", factorId).execute());
+        announce();
     }
 
     /** Brings a retired factor back with its current version (a re-declared family variant whose definition is unchanged). */
     public boolean unretire(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = NULL WHERE name = :n AND retired_at IS NOT NULL")
+        boolean back = jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = NULL WHERE name = :n AND retired_at IS NOT NULL")
                 .bind("n", name).execute()) > 0;
+        if (back) {
+            announce();
+        }
+        return back;
     }
 
     public boolean retire(String name) {
