@@ -30,6 +30,14 @@ public final class ApiServer {
     }
 
     public static Javalin create(Dependencies d, String host, int port) {
+        return create(d, host, port, true);
+    }
+
+    /**
+     * The HTTP server; with {@code servesApi} false (a worker instance) only {@code /health} and {@code /metrics}
+     * answer, everything else is a 404 saying so.
+     */
+    public static Javalin create(Dependencies d, String host, int port, boolean servesApi) {
         Authenticator auth = new Authenticator(d.tokens());
         TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
         JobRoutes jobs = new JobRoutes(d.jobs());
@@ -46,6 +54,14 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            if (!servesApi) {
+                config.routes.before(ctx -> {
+                    if (!ctx.path().equals("/health") && !ctx.path().equals("/metrics")) {
+                        throw new ApiProblem(404, "Not found", "This instance only runs jobs (WINNOW_ROLE=worker); "
+                                + "send API requests to an instance with WINNOW_ROLE api or all.");
+                    }
+                });
+            }
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
 

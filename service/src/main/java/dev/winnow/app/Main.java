@@ -29,7 +29,14 @@ public final class Main {
     }
 
     private static void serve(Config config, boolean demo) throws Exception {
-        Winnow winnow = Winnow.start(config);
+        Winnow winnow;
+        try {
+            winnow = Winnow.start(config);
+        } catch (Winnow.StoreInUseException e) {
+            System.err.println("winnow: " + e.getMessage());
+            System.exit(1);
+            return;
+        }
         Runtime.getRuntime().addShutdownHook(new Thread(winnow::close, "winnow-shutdown"));
         String url = "http://" + config.bind() + ":" + winnow.port();
         if (demo) {

@@ -5,6 +5,7 @@ import dev.winnow.api.Authenticator;
 import dev.winnow.ingest.JobHandler;
 import dev.winnow.ingest.JobKinds;
 import dev.winnow.ingest.JobQueue;
+import dev.winnow.ingest.JobResources;
 import dev.winnow.ingest.JsonText;
 import dev.winnow.ingest.JobWorker;
 import dev.winnow.ingest.UploadSpool;
@@ -37,23 +38,30 @@ public final class Winnow implements AutoCloseable {
 
     private Winnow(Config config) throws IOException {
         Files.createDirectories(config.dataDir());
-        this.database = Database.open(config.dbUrl(), config.dbPool(), null);
+        this.database = openStore(config);
         this.jdbi = database.jdbi();
+        boolean embedded = database.dialect() == Database.Dialect.H2;
         TokenStore tokens = new TokenStore(jdbi);
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi);
         LoadingsStore loadings = new LoadingsStore(jdbi);
-        UploadSpool spool = new UploadSpool(config.dataDir());
+        UploadSpool spool = embedded ? new UploadSpool(config.dataDir())
+                : new UploadSpool(config.dataDir(), new dev.winnow.store.SpoolStore(jdbi));
 
-        int discarded = panels.discardAllStaging();
-        int requeued = jobs.requeueInterrupted();
-        if (discarded + requeued > 0) {
-            LOG.info("recovered from an interrupted run: {} staged upload(s) discarded, {} job(s) queued again", discarded, requeued);
+        if (embedded) {
+            // the embedded store is this process's alone (its file lock refuses a second one), so whatever is
+            // staged or running was left by a crash; on a shared store those belong to other instances, and a dead
+            // worker's jobs come back when their leases expire
+            int discarded = panels.discardAllStaging();
+            int requeued = jobs.requeueInterrupted();
+            if (discarded + requeued > 0) {
+                LOG.info("recovered from an interrupted run: {} staged upload(s) discarded, {} job(s) queued again", discarded, requeued);
+            }
         }
         this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
 
-        this.queue = new JobQueue(jobs);
+        this.queue = new JobQueue(jobs, new JobResources(factors, panels));
         int removed = removeOrphanedSpoolFiles(jobs, spool);
         if (removed > 0) {
             LOG.info("removed {} spooled upload(s) that were never acknowledged", removed);
@@ -63,16 +71,54 @@ public final class Winnow implements AutoCloseable {
             LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
         }
         Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, loadings, spool);
-        this.worker = new JobWorker(jobs, handlers);
+        Config.Instance instance = config.instance();
+        this.worker = instance.role().runsJobs()
+                ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()), null)
+                : null;
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool);
-        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, loadings, queue, spool), config.bind(), config.port());
+        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, loadings, queue, spool), config.bind(), config.port(),
+                instance.role().servesApi());
     }
 
     public static Winnow start(Config config) throws IOException {
         Winnow w = new Winnow(config);
-        w.worker.start(w.queue);
+        if (w.worker != null) {
+            w.worker.start(w.queue);
+        }
         w.http.start();
         return w;
+    }
+
+    /** Opens the store; an embedded store that another process holds is refused with one line naming the directory. */
+    private static Database openStore(Config config) {
+        try {
+            return Database.open(config.dbUrl(), config.dbPool(), null);
+        } catch (RuntimeException e) {
+            if (Database.isEmbeddedStoreInUse(e)) {
+                throw new StoreInUseException("the store in " + config.dataDir() + " is in use by another Winnow process; "
+                        + "the embedded store serves one process at a time (stop the other, or run several on PostgreSQL)");
+            }
+            throw e;
+        }
+    }
+
+    /** The embedded store is open in another process. */
+    public static final class StoreInUseException extends RuntimeException {
+        StoreInUseException(String message) {
+            super(message);
+        }
+    }
+
+    /** This process's name in the job table: host, process id and a random suffix, unique among instances. */
+    private static String workerName() {
+        String host;
+        try {
+            host = java.net.InetAddress.getLocalHost().getHostName();
+        } catch (java.net.UnknownHostException e) {
+            host = "unknown-host";
+        }
+        String name = host + "/" + ProcessHandle.current().pid() + "/" + Long.toHexString(new java.security.SecureRandom().nextLong() & 0xffffffL);
+        return name.length() > 100 ? name.substring(name.length() - 100) : name;
     }
 
     /**
@@ -82,7 +128,7 @@ public final class Winnow implements AutoCloseable {
     private static int removeOrphanedSpoolFiles(JobStore jobs, UploadSpool spool) throws IOException {
         java.util.Set<String> referenced = new java.util.HashSet<>();
         for (String kind : java.util.List.of(JobKinds.PANEL_UPLOAD, JobKinds.SERIES_UPLOAD)) {
-            for (JobStore.JobRecord job : jobs.queued(kind)) {
+            for (JobStore.JobRecord job : jobs.unfinished(kind)) {
                 referenced.add(String.valueOf(JsonText.readMap(job.params()).get("file")));
             }
         }
@@ -95,7 +141,7 @@ public final class Winnow implements AutoCloseable {
      */
     private static int requeueOrphanedBuilds(FactorStore factors, JobStore jobs, JobQueue queue) {
         java.util.Set<String> queued = new java.util.HashSet<>();
-        for (JobStore.JobRecord job : jobs.queued(JobKinds.FACTOR_BUILD)) {
+        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FACTOR_BUILD)) {
             Map<String, Object> params = JsonText.readMap(job.params());
             queued.add(params.get("factor") + "#" + params.get("version"));
         }
@@ -117,6 +163,15 @@ public final class Winnow implements AutoCloseable {
      * a new one is made; only its hash is stored and the token itself is returned to be printed once.
      */
     private static String bootstrapAdmin(TokenStore tokens, String configured) {
+        try {
+            return bootstrapAdminOnce(tokens, configured);
+        } catch (RuntimeException e) {
+            // another instance starting at the same moment inserted it first: what it stored is what we wanted
+            return bootstrapAdminOnce(tokens, configured);
+        }
+    }
+
+    private static String bootstrapAdminOnce(TokenStore tokens, String configured) {
         if (configured != null) {
             String hash = Authenticator.hash(configured);
             if (tokens.all().stream().noneMatch(t -> t.tokenHash().equals(hash))) {
@@ -160,7 +215,9 @@ public final class Winnow implements AutoCloseable {
     @Override
     public void close() {
         http.stop();
-        worker.close();
+        if (worker != null) {
+            worker.close();
+        }
         database.close();
     }
 }

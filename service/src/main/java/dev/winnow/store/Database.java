@@ -83,6 +83,16 @@ public final class Database implements AutoCloseable {
         return new Database(pool, dialect);
     }
 
+    /** Whether opening failed because an embedded H2 database file is locked by another process. */
+    public static boolean isEmbeddedStoreInUse(Throwable e) {
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof java.sql.SQLException sql && sql.getErrorCode() == org.h2.api.ErrorCode.DATABASE_ALREADY_OPEN_1) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     public Jdbi jdbi() {
         return jdbi;
     }

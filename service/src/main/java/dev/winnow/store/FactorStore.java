@@ -232,6 +232,7 @@ public final class FactorStore {
      */
     public void saveBuild(long factorId, int version, StoredBuild build, Replaced replaced) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             deleteFrom(h, "factor_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
@@ -294,6 +295,7 @@ public final class FactorStore {
      */
     public void saveExternal(long factorId, int version, List<StoredReturn> returns, boolean revise) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             if (revise) {
                 PreparedBatch del = h.prepareBatch("DELETE FROM factor_returns WHERE factor_id = :f AND version = :v AND obs_date = :d");
                 for (StoredReturn r : returns) {
@@ -329,9 +331,12 @@ public final class FactorStore {
     }
 
     public void markFailed(long factorId, int version, String reportJson) {
-        jdbi.useHandle(h -> h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
-                        + "WHERE factor_id = :f AND version = :v")
-                .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute());
+        jdbi.useTransaction(h -> {
+            JobLease.hold(h);
+            h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
+                            + "WHERE factor_id = :f AND version = :v")
+                    .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
+        });
     }
 
     public byte[] engineState(long factorId, int version) {

@@ -136,6 +136,7 @@ public final class PanelStore {
      */
     public void commitUpload(long panelId, long uploadId, Map<String, String> newColumns) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             List<long[]> superseded = new ArrayList<>();
             h.createQuery("SELECT s.upload_id, s.slice_date FROM panel_slices s " + VISIBLE
                             + " WHERE s.panel_id = :p AND s.slice_date IN (SELECT slice_date FROM panel_slices WHERE upload_id = :u)")
@@ -181,7 +182,22 @@ public final class PanelStore {
         jdbi.useTransaction(h -> discard(h, uploadId));
     }
 
-    /** At start-up: discards uploads a crash left in staging. Returns how many. */
+    /**
+     * Discards what an earlier run of the same job left in staging (its worker died before the commit); the job
+     * then stages its upload again from the start.
+     */
+    public int discardStagingOfJob(long jobId) {
+        return jdbi.inTransaction(h -> {
+            List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE job_id = :j AND state = 'staging'")
+                    .bind("j", jobId).mapTo(Long.class).list();
+            for (long id : staging) {
+                discard(h, id);
+            }
+            return staging.size();
+        });
+    }
+
+    /** At start-up of the only process on an embedded store: discards uploads a crash left in staging. Returns how many. */
     public int discardAllStaging() {
         return jdbi.inTransaction(h -> {
             List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE state = 'staging'").mapTo(Long.class).list();

@@ -17,11 +17,36 @@ public final class TokenStore {
     public record TokenRecord(String name, String scope, String tokenHash, OffsetDateTime createdAt) {
     }
 
+    /** Every token with the epoch they were read at, in one transaction. */
+    public record Snapshot(long epoch, List<TokenRecord> tokens) {
+    }
+
+    public Snapshot snapshot() {
+        return jdbi.inTransaction(h -> new Snapshot(epoch(h), all(h)));
+    }
+
+    /** The token epoch: it changes with every insert and delete, by any instance. */
+    public long epoch() {
+        return jdbi.withHandle(TokenStore::epoch);
+    }
+
+    private static long epoch(org.jdbi.v3.core.Handle h) {
+        return h.createQuery("SELECT epoch FROM token_epoch WHERE id = 1").mapTo(Long.class).one();
+    }
+
+    private static void bumpEpoch(org.jdbi.v3.core.Handle h) {
+        h.createUpdate("UPDATE token_epoch SET epoch = epoch + 1 WHERE id = 1").execute();
+    }
+
     public List<TokenRecord> all() {
-        return jdbi.withHandle(h -> h.createQuery("SELECT name, scope, token_hash, created_at FROM api_tokens ORDER BY name")
+        return jdbi.withHandle(TokenStore::all);
+    }
+
+    private static List<TokenRecord> all(org.jdbi.v3.core.Handle h) {
+        return h.createQuery("SELECT name, scope, token_hash, created_at FROM api_tokens ORDER BY name")
                 .map((rs, ctx) -> new TokenRecord(rs.getString(1), rs.getString(2), rs.getString(3),
                         rs.getObject(4, OffsetDateTime.class)))
-                .list());
+                .list();
     }
 
     /** Inserts a token; false when the name is taken. */
@@ -36,12 +61,17 @@ public final class TokenStore {
                     .bind("name", name).bind("scope", scope).bind("hash", tokenHash)
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .execute();
+            bumpEpoch(h);
             return true;
         });
     }
 
     public boolean delete(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0;
+        return jdbi.inTransaction(h -> {
+            int deleted = h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute();
+            bumpEpoch(h);
+            return deleted;
+        }) > 0;
     }
 
     public boolean anyWithScope(String scope) {

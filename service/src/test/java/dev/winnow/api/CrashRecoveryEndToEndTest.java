@@ -101,6 +101,8 @@ class CrashRecoveryEndToEndTest {
         pb.environment().put("WINNOW_PORT", String.valueOf(port));
         pb.environment().put("WINNOW_DATA_DIR", dir.toString());
         pb.environment().put("WINNOW_DB_URL", database.url());
+        // on a shared store the killed process's job comes back when its lease expires; keep that short here
+        pb.environment().put("WINNOW_JOB_LEASE_S", "4");
         pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);
         pb.redirectErrorStream(true).redirectOutput(dir.resolve("service.log").toFile());
         process = pb.start();
