@@ -1,7 +1,6 @@
 package dev.winnow.app;
 
 import com.fasterxml.jackson.databind.JsonNode;
-import com.fasterxml.jackson.databind.ObjectMapper;
 import dev.winnow.app.seed.SyntheticPanelWriter;
 
 import java.io.IOException;
@@ -16,8 +15,6 @@ import java.net.http.HttpResponse;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.time.Duration;
-import java.time.OffsetDateTime;
 import java.util.ArrayList;
 import java.util.Comparator;
 import java.util.List;
@@ -32,10 +29,10 @@ import java.util.Locale;
  */
 final class Bench {
     private static final String TOKEN = "bench-admin-token";
-    private static final ObjectMapper JSON = new ObjectMapper();
 
     private final HttpClient client = HttpClient.newHttpClient();
     private int port;
+    private BenchClient http;
 
     private Bench() {
     }
@@ -60,28 +57,29 @@ final class Bench {
             Path store = dir.resolve("store");
             try (Winnow winnow = Winnow.start(new Config(0, "127.0.0.1", store, Config.defaultH2Url(store), TOKEN))) {
                 port = winnow.port();
+                http = new BenchClient(port, TOKEN, 100);
                 resetPeaks();
                 long t0 = System.nanoTime();
-                JsonNode ingest = awaitJob(upload("/v1/panels/bench/uploads", panel));
+                JsonNode ingest = http.awaitJob(http.upload("/v1/panels/bench/uploads", panel));
                 double uploadSeconds = (System.nanoTime() - t0) / 1e9;
-                double ingestSeconds = jobSeconds(ingest);
+                double ingestSeconds = BenchClient.jobSeconds(ingest);
                 long heapIngest = peakHeap();
                 report("ingest job", ingest);
                 System.out.printf(Locale.ROOT, "ingest: %d rows, job %.1f s = %.0f rows/s (upload + job %.1f s), peak heap %d MB%n",
                         rows, ingestSeconds, rows / ingestSeconds, uploadSeconds, heapIngest >> 20);
 
                 resetPeaks();
-                JsonNode build = awaitJob(define("mom", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
+                JsonNode build = http.awaitJob(http.define("mom", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
                         + "\"buckets\":5,\"weighting\":\"cap\",\"rebalance\":\"monthly\",\"cost_bps\":10}"));
                 report("build job", build);
                 System.out.printf(Locale.ROOT, "build of one sort factor (quintiles, cap-weighted, monthly, daily returns): %.2f s, peak heap %d MB%n",
-                        jobSeconds(build), peakHeap() >> 20);
+                        BenchClient.jobSeconds(build), peakHeap() >> 20);
 
                 resetPeaks();
-                JsonNode buildDaily = awaitJob(define("mom_daily", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
+                JsonNode buildDaily = http.awaitJob(http.define("mom_daily", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
                         + "\"buckets\":5,\"weighting\":\"equal\"}"));
                 System.out.printf(Locale.ROOT, "build of one sort factor rebalanced every day: %.2f s, peak heap %d MB%n",
-                        jobSeconds(buildDaily), peakHeap() >> 20);
+                        BenchClient.jobSeconds(buildDaily), peakHeap() >> 20);
 
                 String[] more = {
                     "{\"panel\":\"bench\",\"method\":\"market\"}",
@@ -95,26 +93,26 @@ final class Bench {
                 };
                 List<String> jobs = new ArrayList<>();
                 for (int i = 0; i < more.length; i++) {
-                    jobs.add(define("f" + i, more[i]));
+                    jobs.add(http.define("f" + i, more[i]));
                 }
                 for (String job : jobs) {
-                    awaitJob(job);
+                    http.awaitJob(job);
                 }
 
                 resetPeaks();
-                JsonNode append = awaitJob(upload("/v1/panels/bench/uploads", appendDay));
+                JsonNode append = http.awaitJob(http.upload("/v1/panels/bench/uploads", appendDay));
                 report("append job", append);
                 System.out.printf(Locale.ROOT, "append one day (%d rows) to the %d-date panel and extend 10 factors: job %.3f s, peak heap %d MB%n",
-                        securities, dates, jobSeconds(append), peakHeap() >> 20);
+                        securities, dates, BenchClient.jobSeconds(append), peakHeap() >> 20);
 
                 Path revision = dir.resolve("revision.csv");
                 writeRevision(panel, appendDay, revision, 5);
                 resetPeaks();
-                JsonNode revise = awaitJob(upload("/v1/panels/bench/uploads?mode=revise", revision));
+                JsonNode revise = http.awaitJob(http.upload("/v1/panels/bench/uploads?mode=revise", revision));
                 report("revision job", revise);
                 System.out.printf(Locale.ROOT, "revise the last 5 dates (%d rows) of the %d-date panel and bring 10 factors up to date "
                                 + "(resumed from %s): job %.3f s, peak heap %d MB%n", 5L * securities, dates + 1,
-                        revise.path("report").path("factors").get(0).path("rebuilt_from").asText(), jobSeconds(revise), peakHeap() >> 20);
+                        revise.path("report").path("factors").get(0).path("rebuilt_from").asText(), BenchClient.jobSeconds(revise), peakHeap() >> 20);
                 analytics(dates);
                 System.out.printf(Locale.ROOT, "store size on disk: %.0f MB%n", directorySize(store) / 1e6);
                 System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
@@ -149,7 +147,7 @@ final class Bench {
             }
             Path file = Files.createTempFile("series", ".csv");
             Files.writeString(file, csv);
-            awaitJob(upload("/v1/factors/" + name + "/uploads", file));
+            http.awaitJob(http.upload("/v1/factors/" + name + "/uploads", file));
             Files.delete(file);
         }
         String matrix = "/v1/correlations?factors=" + String.join(",", names);
@@ -234,49 +232,6 @@ final class Bench {
             out.append(String.join(",", cells)).append('\n');
         }
         Files.writeString(revision, out);
-    }
-
-    private String upload(String path, Path file) throws Exception {
-        HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + path))
-                .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "text/csv")
-                .POST(HttpRequest.BodyPublishers.ofFile(file)).build();
-        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
-    }
-
-    private String define(String name, String definition) throws Exception {
-        HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/factors/" + name))
-                .header("Authorization", "Bearer " + TOKEN).header("Content-Type", "application/json")
-                .PUT(HttpRequest.BodyPublishers.ofString(definition)).build();
-        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
-    }
-
-    private static String jobOf(HttpResponse<String> response) throws IOException {
-        if (response.statusCode() != 202) {
-            throw new IllegalStateException("expected 202, got " + response.statusCode() + ": " + response.body());
-        }
-        return JSON.readTree(response.body()).path("job").asText();
-    }
-
-    private JsonNode awaitJob(String id) throws Exception {
-        while (true) {
-            HttpRequest request = HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/jobs/" + id))
-                    .header("Authorization", "Bearer " + TOKEN).GET().timeout(Duration.ofSeconds(30)).build();
-            JsonNode job = JSON.readTree(client.send(request, HttpResponse.BodyHandlers.ofString()).body());
-            String state = job.path("state").asText();
-            if (state.equals("failed")) {
-                throw new IllegalStateException("job " + id + " failed: " + job);
-            }
-            if (state.equals("succeeded")) {
-                return job;
-            }
-            Thread.sleep(100);
-        }
-    }
-
-    private static double jobSeconds(JsonNode job) {
-        OffsetDateTime started = OffsetDateTime.parse(job.path("started_at").asText());
-        OffsetDateTime finished = OffsetDateTime.parse(job.path("finished_at").asText());
-        return Duration.between(started, finished).toNanos() / 1e9;
     }
 
     private static void report(String what, JsonNode job) {

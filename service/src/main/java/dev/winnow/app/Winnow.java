@@ -2,16 +2,25 @@ package dev.winnow.app;
 
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
-import dev.winnow.ingest.JobHandler;
-import dev.winnow.ingest.JobKinds;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.JobResources;
-import dev.winnow.ingest.JsonText;
-import dev.winnow.ingest.JobWorker;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobHandler;
+import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.jobs.JobResources;
+import dev.winnow.jobs.JobWorker;
+import dev.winnow.research.Breadth;
+import dev.winnow.research.FactorBuilds;
+import dev.winnow.research.FactorDefinitions;
+import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.LoadingsRefresh;
+import dev.winnow.research.LoadingsService;
+import dev.winnow.research.SignalPreview;
+import dev.winnow.research.Themes;
+import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
+import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.TokenStore;
@@ -70,13 +79,19 @@ public final class Winnow implements AutoCloseable {
         if (rebuilds > 0) {
             LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
         }
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, loadings, spool);
+        FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
+        FactorBuilds builds = new FactorBuilds(panels, factors);
+        LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
         Config.Instance instance = config.instance();
         this.worker = instance.role().runsJobs()
                 ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()), null)
                 : null;
-        this.demo = new DemoLoader(panels, factors, jobs, queue, spool);
-        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, loadings, queue, spool), config.bind(), config.port(),
+        this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
+        Breadth breadth = new Breadth(panels, factors);
+        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
+                new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
+                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors)), config.bind(), config.port(),
                 instance.role().servesApi());
     }
 
@@ -148,10 +163,7 @@ public final class Winnow implements AutoCloseable {
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {
             if (v.status().equals("building") && !v.method().equals("external") && !queued.contains(v.name() + "#" + v.version())) {
-                Map<String, Object> params = new java.util.LinkedHashMap<>();
-                params.put("factor", v.name());
-                params.put("version", v.version());
-                queue.enqueue(JobKinds.FACTOR_BUILD, params);
+                queue.queueFactorBuild(v.name(), v.version());
                 count++;
             }
         }

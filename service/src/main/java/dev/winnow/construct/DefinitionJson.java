@@ -58,7 +58,7 @@ public final class DefinitionJson {
         }
         FactorDefinition.Builder b = FactorDefinition.builder(method)
                 .panel(text(node, "panel", problems))
-                .signal(text(node, "signal", problems))
+                .signal(node.hasNonNull("signal") ? RecipeJson.read(node.get("signal"), "signal", problems) : null)
                 .direction(enumField(node, "direction", Direction.class, problems))
                 .buckets(integer(node, "buckets", problems))
                 .weighting(enumField(node, "weighting", Weighting.class, problems))
@@ -92,7 +92,13 @@ public final class DefinitionJson {
         ObjectNode o = MAPPER.createObjectNode();
         putText(o, "method", wire(d.method()));
         putText(o, "panel", d.panel());
-        putText(o, "signal", d.signal());
+        if (d.signal() != null) {
+            if (d.signal().columnName() != null) {
+                o.put("signal", d.signal().columnName());
+            } else {
+                o.set("signal", RecipeJson.toJson(d.signal()));
+            }
+        }
         putText(o, "direction", wire(d.direction()));
         putInt(o, "buckets", d.buckets());
         putText(o, "weighting", wire(d.weighting()));

@@ -74,7 +74,7 @@ public final class DefinitionValidator {
             problems.add("panel is required for method " + name);
         }
         boolean sorts = method == Method.SORT || method == Method.SIZE_SORT;
-        if (sorts && isBlank(def.signal())) {
+        if (sorts && def.signal() == null) {
             problems.add("signal is required for method " + name + ": name a numeric column of the panel");
         }
         notFor(!sorts, def.signal(), "signal", "applies to methods sort and size_sort only", problems);
@@ -146,9 +146,8 @@ public final class DefinitionValidator {
 
     private static void checkColumns(FactorDefinition def, PanelSchema schema, List<String> problems) {
         String panel = "panel '" + def.panel() + "'";
-        if (def.signal() != null && !def.signal().isBlank() && !schema.isNumeric(def.signal())) {
-            problems.add("signal '" + def.signal() + "' is not a numeric column of " + panel
-                    + "; numeric columns are: " + String.join(", ", schema.numericColumns()));
+        if (def.signal() != null) {
+            RecipeJson.check(def.signal(), schema, def.panel(), "signal", problems);
         }
         String capUse = marketCapUse(def);
         if (capUse != null && !schema.hasMarketCap()) {

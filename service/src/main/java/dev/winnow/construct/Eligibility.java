@@ -15,11 +15,10 @@ final class Eligibility {
     private Eligibility() {
     }
 
-    /** Eligible row indices of {@code xs}, increasing. */
-    static int[] eligibleRows(FactorDefinition def, CrossSection xs) {
+    /** Eligible row indices of {@code xs}, increasing; {@code signal} aligned with its rows (null: no signal needed). */
+    static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal) {
         int n = xs.size();
         double[] caps = xs.marketCaps();
-        double[] signal = def.method() == Method.MARKET ? null : xs.numberColumn(def.signal());
         boolean needsCap = def.method() != Method.SORT || def.effectiveWeighting() == Weighting.CAP;
         Universe universe = def.effectiveUniverse();
         Double minCap = universe.minMarketCap();

@@ -10,7 +10,7 @@ import java.util.StringJoiner;
  *
  * @param method          how the series is obtained; EXTERNAL series are uploaded, not built
  * @param panel           panel name (not for EXTERNAL)
- * @param signal          numeric column to sort on (SORT and SIZE_SORT)
+ * @param signal          what to sort on: a numeric column or a {@link Recipe} (SORT and SIZE_SORT)
  * @param direction       which end is long; default HIGH_MINUS_LOW
  * @param buckets         number of sort buckets, 2..20; default 5 (SORT only)
  * @param weighting       weights inside a portfolio; default EQUAL for SORT, CAP otherwise
@@ -29,7 +29,7 @@ import java.util.StringJoiner;
 public record FactorDefinition(
         Method method,
         String panel,
-        String signal,
+        Recipe signal,
         Direction direction,
         Integer buckets,
         Weighting weighting,
@@ -117,7 +117,7 @@ public record FactorDefinition(
      */
     public String constructionKey() {
         StringJoiner key = new StringJoiner(";");
-        key.add("method=" + method).add("panel=" + panel).add("signal=" + signal)
+        key.add("method=" + method).add("panel=" + panel).add("signal=" + signalKey())
                 .add("direction=" + effectiveDirection()).add("buckets=" + effectiveBuckets())
                 .add("weighting=" + effectiveWeighting()).add("lag=" + effectiveLag())
                 .add("rebalance=" + effectiveRebalance()).add("rebalance_month=" + rebalanceMonth)
@@ -130,6 +130,29 @@ public record FactorDefinition(
         }
         key.add("size_half=" + u.sizeHalf()).add("segment=" + u.segment()).add("breakpoints=" + breakpoints);
         return key.toString();
+    }
+
+    /**
+     * The signal's part of the construction key: the column name for a plain column (so a column spelled as a string
+     * or as {@code {"column": ...}} keys alike, as versions built before recipes did), else the canonical recipe.
+     */
+    private String signalKey() {
+        if (signal == null) {
+            return "null";
+        }
+        return signal.columnName() != null ? signal.columnName() : RecipeJson.canonical(signal);
+    }
+
+    /** The factors whose returns the build reads: the risk_free rate, then those the signal recipe names. */
+    public java.util.Set<String> factorsRead() {
+        java.util.Set<String> names = new java.util.LinkedHashSet<>();
+        if (riskFree != null) {
+            names.add(riskFree);
+        }
+        if (signal != null) {
+            names.addAll(signal.factors());
+        }
+        return names;
     }
 
     /** The same definition restricted to another universe (all other fields unchanged). */
@@ -146,7 +169,7 @@ public record FactorDefinition(
     public static final class Builder {
         private final Method method;
         private String panel;
-        private String signal;
+        private Recipe signal;
         private Direction direction;
         private Integer buckets;
         private Weighting weighting;
@@ -171,7 +194,13 @@ public record FactorDefinition(
             return this;
         }
 
-        public Builder signal(String value) {
+        /** A plain column signal (null for none). */
+        public Builder signal(String column) {
+            signal = column == null ? null : Recipe.column(column);
+            return this;
+        }
+
+        public Builder signal(Recipe value) {
             signal = value;
             return this;
         }

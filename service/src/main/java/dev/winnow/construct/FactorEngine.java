@@ -18,8 +18,11 @@ import java.util.Objects;
  * before the period's drift. The net return of a holding's first period is the spread minus
  * costBps / 10,000 x the formation's turnover; if that first period has no return, that cost is not charged.
  *
- * <p>The panel is read in date order, holding only the last {@code lag} cross-sections. Appending dates and
- * resuming gives bit-for-bit the series of a build over all dates at once.
+ * <p>The signal is a {@link Recipe} evaluated at R - (lag - 1) by a {@link SignalEvaluator}; a security is eligible
+ * only with a row there. The panel is read in date order, holding only the last {@code lag} cross-sections (and the
+ * columns the recipe reads over its lookback). A resumed build first re-reads the {@code lag} + lookback dates before
+ * its start; since every recipe value is a pure function of that window, appending dates and resuming gives
+ * bit-for-bit the series of a build over all dates at once.
  */
 public final class FactorEngine {
     private FactorEngine() {
@@ -33,6 +36,16 @@ public final class FactorEngine {
      * @return the observations and formations after the state's last processed date, and the new end state
      */
     public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume) {
+        return build(def, panel, riskFree, Map.of(), resume);
+    }
+
+    /**
+     * As {@link #build(FactorDefinition, PanelSource, ReturnSeries, EngineState)}, for a signal recipe that reads
+     * factors ({@code trailing_beta}): {@code signalFactors} gives the return series of each factor in
+     * {@code def.signal().factors()}.
+     */
+    public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                                    Map<String, ReturnSeries> signalFactors, EngineState resume) {
         DefinitionValidator.requireBuildable(def);
         Objects.requireNonNull(panel, "panel");
         if (def.riskFree() != null && riskFree == null) {
@@ -46,7 +59,7 @@ public final class FactorEngine {
         if (resume != null) {
             checkResumable(def, dates, resume);
         }
-        return new Run(def, panel, dates, riskFree, resume).execute();
+        return new Run(def, panel, dates, riskFree, signalFactors, resume).execute();
     }
 
     private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
@@ -68,6 +81,7 @@ public final class FactorEngine {
         private final PortfolioRule rule;
         private final RebalanceCalendar calendar;
         private final int lag;
+        private final SignalEvaluator signal;
         private final double costRate;
         private final String key;
         private final int start;
@@ -76,13 +90,15 @@ public final class FactorEngine {
         private final List<Formation> formations = new ArrayList<>();
         private int withoutReturn;
 
-        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree, EngineState resume) {
+        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
+            Map<String, ReturnSeries> signalFactors, EngineState resume) {
             this.panel = panel;
             this.dates = dates;
             this.riskFree = riskFree == null ? null : byDate(riskFree);
             this.rule = PortfolioRule.of(def);
             this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
             this.lag = def.effectiveLag();
+            this.signal = def.signal() == null ? null : new SignalEvaluator(def.signal(), signalFactors, lag - 1);
             this.costRate = def.effectiveCostBps() / 10_000.0;
             this.key = def.constructionKey();
             this.start = resume == null ? 0 : resume.processedDates();
@@ -91,14 +107,21 @@ public final class FactorEngine {
 
         BuildResult execute() {
             LagWindow window = new LagWindow(lag);
-            for (int i = Math.max(0, start - lag); i < start; i++) {
-                window.put(i, read(i));
+            int history = lag + (signal == null ? 0 : signal.lookback());
+            for (int i = Math.max(0, start - history); i < start; i++) {
+                CrossSection rows = read(i);
+                if (i >= start - lag) {
+                    window.put(i, rows);
+                }
+                if (signal != null) {
+                    signal.offer(i, rows);
+                }
             }
             for (int t = start; t < dates.size(); t++) {
                 CrossSection rows = read(t);
                 double cost = 0.0;
                 if (t >= 1 && t - lag >= 0 && calendar.isRebalancePoint(dates.get(t - 1), dates.get(t))) {
-                    Holding[] next = rule.form(window.get(t - lag));
+                    Holding[] next = rule.form(window.get(t - lag), signal == null ? null : signal.valueAt(t - lag));
                     double turnover = LegWeights.turnover(rule, next, book);
                     formations.add(new Formation(dates.get(t - 1), turnover));
                     cost = costRate * turnover;
@@ -108,6 +131,9 @@ public final class FactorEngine {
                     hold(rows, cost);
                 }
                 window.put(t, rows);
+                if (signal != null) {
+                    signal.offer(t, rows);
+                }
             }
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);

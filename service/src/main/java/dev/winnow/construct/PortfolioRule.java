@@ -8,8 +8,12 @@ import dev.winnow.construct.FactorDefinition.Weighting;
  */
 interface PortfolioRule {
 
-    /** The sub-portfolios formed on these rows, always the same number and order; empty ones are allowed. */
-    Holding[] form(CrossSection rows);
+    /**
+     * The sub-portfolios formed on these rows, always the same number and order; empty ones are allowed.
+     *
+     * @param signal the definition's signal evaluated at these rows (aligned with them), null for methods without one
+     */
+    Holding[] form(CrossSection rows, double[] signal);
 
     /** Indices into {@link #form}'s result that make up the long leg. */
     int[] longLeg();

@@ -29,7 +29,7 @@ class DefinitionValidatorTest {
     @Test
     void unknownSignalListsTheNumericColumns() {
         List<String> problems = DefinitionValidator.validate(sort().signal("sector").build(), ACME);
-        assertEquals(List.of("signal 'sector' is not a numeric column of panel 'acme'; numeric columns are: "
+        assertEquals(List.of("signal: column 'sector' of panel acme holds labels, not numbers; numeric columns are "
                 + "return, market_cap, bm, momentum"), problems);
     }
 

@@ -61,6 +61,20 @@ final class PanelLayout {
         row.append(',').append(sector).append(',').append(tier).append('\n');
     }
 
+    /** Appends one row of the seven-column layout {@link SyntheticPanelWriter#NARROW_HEADER}, newline included. */
+    static void appendNarrowRow(StringBuilder row, String date, String security, double periodReturn, double marketCap,
+                                double bookToPrice, double momentum, String sector) {
+        row.append(date).append(',').append(security).append(',');
+        appendNumber(row, periodReturn);
+        row.append(',');
+        appendNumber(row, marketCap);
+        row.append(',');
+        appendNumber(row, bookToPrice);
+        row.append(',');
+        appendNumber(row, momentum);
+        row.append(',').append(sector).append('\n');
+    }
+
     static void appendNumber(StringBuilder row, double value) {
         SignificantDigits.append(row, value, SIGNIFICANT_DIGITS);
     }

@@ -18,12 +18,20 @@ import java.util.Locale;
  * (twelve months less the latest one at 21 trading days a month). About 2% of characteristic cells and 0.2% of
  * market caps are missing.
  *
- * <p>Run as {@code java -cp winnow.jar dev.winnow.app.seed.SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed]};
+ * <p>{@link Columns#NARROW} writes the same model with only seven columns ({@value #NARROW_HEADER}): the layout the
+ * comparison benchmark loads into both Winnow and an embedded analytical database.
+ *
+ * <p>Run as {@code java -cp winnow.jar dev.winnow.app.seed.SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed] [narrow]};
  * the benchmark size is 3000 securities by 6300 dates (about 19 million rows).
  */
 public final class SyntheticPanelWriter {
 
     public static final long DEFAULT_SEED = 6_300L;
+    public static final String NARROW_HEADER = "date,security,return,market_cap,book_to_price,momentum_12_1,sector";
+
+    /** Which columns to write: the demo panel's full layout, or the seven-column one. */
+    public enum Columns { ALL, NARROW }
+
     private static final int DAYS_PER_MONTH = 21;
     private static final int WINDOW = 252;
     private static final int SKIPPED = DAYS_PER_MONTH;
@@ -84,21 +92,33 @@ public final class SyntheticPanelWriter {
 
     /** Writes the header and {@code securities * dates} rows to {@code out}, date by date, securities in code order. */
     public static void write(Writer out, int securities, int dates, long seed) throws IOException {
+        write(out, securities, dates, seed, Columns.ALL);
+    }
+
+    /** As {@link #write(Writer, int, int, long)}, with the given columns; the values do not depend on the choice. */
+    public static void write(Writer out, int securities, int dates, long seed, Columns columns) throws IOException {
         if (securities < 1 || dates < 1) {
             throw new IllegalArgumentException("securities and dates must both be at least 1, got " + securities + " and " + dates);
         }
-        new SyntheticPanelWriter(securities, seed).writeRows(out, dates);
+        new SyntheticPanelWriter(securities, seed).writeRows(out, dates, columns);
     }
 
     /** Writes the panel to {@code file}, gzip-compressed when the name ends with ".gz". */
     public static void write(Path file, int securities, int dates, long seed) throws IOException {
+        write(file, securities, dates, seed, Columns.ALL);
+    }
+
+    /** Writes the panel with the given columns to {@code file}, gzip-compressed when the name ends with ".gz". */
+    public static void write(Path file, int securities, int dates, long seed, Columns columns) throws IOException {
         try (Writer out = PanelLayout.openWriter(file)) {
-            write(out, securities, dates, seed);
+            write(out, securities, dates, seed, columns);
         }
     }
 
-    private void writeRows(Writer out, int dates) throws IOException {
-        out.write(PanelLayout.HEADER);
+    private void writeRows(Writer out, int dates, Columns columns) throws IOException {
+        boolean narrow = columns == Columns.NARROW;
+        int bookToPriceColumn = PanelLayout.CHARACTERISTICS.indexOf("book_to_price");
+        out.write(narrow ? NARROW_HEADER : PanelLayout.HEADER);
         out.write('\n');
         StringBuilder row = new StringBuilder(256);
         double[] values = new double[PanelLayout.CHARACTERISTICS.size()];
@@ -126,8 +146,13 @@ public final class SyntheticPanelWriter {
                 values[momentumColumn] = draws.chance(MISSING_CHARACTERISTIC) ? Double.NaN : momentum;
                 double cap = draws.chance(MISSING_MARKET_CAP) ? Double.NaN : marketCap[i];
                 row.setLength(0);
-                PanelLayout.appendRow(row, dateText, codes[i], r, cap, values, PanelLayout.SECTORS.get(sector[i]),
-                        main[i] ? PanelLayout.MAIN_TIER : PanelLayout.GROWTH_TIER);
+                if (narrow) {
+                    PanelLayout.appendNarrowRow(row, dateText, codes[i], r, cap, values[bookToPriceColumn],
+                            values[momentumColumn], PanelLayout.SECTORS.get(sector[i]));
+                } else {
+                    PanelLayout.appendRow(row, dateText, codes[i], r, cap, values, PanelLayout.SECTORS.get(sector[i]),
+                            main[i] ? PanelLayout.MAIN_TIER : PanelLayout.GROWTH_TIER);
+                }
                 out.append(row);
             }
             date = BusinessCalendar.next(date);
@@ -162,18 +187,18 @@ public final class SyntheticPanelWriter {
         return day >= WINDOW - 1 ? StrictMath.expm1(momentumLogSum[i]) : Double.NaN;
     }
 
-    /** {@code SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed]}. */
+    /** {@code SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed] [narrow]}. */
     public static void main(String[] args) throws IOException {
-        if (args.length < 3 || args.length > 4) {
-            System.err.println("usage: java -cp winnow.jar dev.winnow.app.seed.SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed]");
+        if (args.length < 3 || args.length > 5 || (args.length == 5 && !args[4].equals("narrow"))) {
+            System.err.println("usage: java -cp winnow.jar dev.winnow.app.seed.SyntheticPanelWriter <out.csv[.gz]> <securities> <dates> [seed] [narrow]");
             System.exit(2);
         }
         Path file = Path.of(args[0]);
         int securities = Integer.parseInt(args[1]);
         int dates = Integer.parseInt(args[2]);
-        long seed = args.length == 4 ? Long.parseLong(args[3]) : DEFAULT_SEED;
+        long seed = args.length >= 4 ? Long.parseLong(args[3]) : DEFAULT_SEED;
         long start = System.nanoTime();
-        write(file, securities, dates, seed);
+        write(file, securities, dates, seed, args.length == 5 ? Columns.NARROW : Columns.ALL);
         System.out.printf(Locale.ROOT, "wrote %d rows to %s in %.1f s%n", (long) securities * dates, file,
                 (System.nanoTime() - start) / 1e9);
     }
