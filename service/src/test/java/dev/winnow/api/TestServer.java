@@ -32,12 +32,19 @@ public final class TestServer implements AutoCloseable {
 
     private final Path dir;
     private final TestDatabase database;
+    private final Config.Instance instance;
     private Winnow winnow;
     private final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     public TestServer() throws IOException {
+        this(Config.Instance.DEFAULT);
+    }
+
+    /** A server with other instance settings (role, worker threads, lease). */
+    public TestServer(Config.Instance instance) throws IOException {
         this.dir = Files.createTempDirectory("winnow-test");
         this.database = TestDatabase.fresh(dir, Config.defaultH2Url(dir));
+        this.instance = instance;
         start();
     }
 
@@ -47,7 +54,7 @@ public final class TestServer implements AutoCloseable {
 
     /** The configuration this server runs with: port 0, its store, the test admin token. */
     public Config config() {
-        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN);
+        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN).withInstance(instance);
     }
 
     /** The JDBC URL of this server's store. */
