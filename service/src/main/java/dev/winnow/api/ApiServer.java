@@ -6,15 +6,20 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.research.UnknownNameException;
+import dev.winnow.stats.InsufficientDataException;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorageFaultLog;
+import dev.winnow.store.StorageFaults;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
@@ -34,7 +39,8 @@ public final class ApiServer {
     /** What the handlers need, each wired once by the application. */
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
-                               Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals) {
+                               Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health) {
     }
 
     private ApiServer() {
@@ -56,9 +62,11 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
         ChartRoutes charts = new ChartRoutes(d.factors());
+        PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -76,7 +84,12 @@ public final class ApiServer {
                 });
             }
             config.routes.before(auth::check);
-            config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/health", ctx -> {
+                Health health = d.health().now();
+                Json.respond(ctx, health.serving() ? 200 : 503, health);
+            });
+            config.routes.get("/", page::page);
+            config.routes.get("/ui/{file}", page::asset);
 
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
@@ -117,6 +130,9 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
+            config.routes.get("/v1/model-tests", crossSection::modelTests);
+
             mapErrors(config);
         });
     }
@@ -129,15 +145,30 @@ public final class ApiServer {
     static void mapErrors(JavalinConfig config) {
         config.routes.exception(UnknownNameException.class, (e, ctx) -> problem(ctx, 404, "Not found", e.getMessage(), java.util.List.of()));
         config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+        config.routes.exception(InsufficientDataException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
         config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
                 e.getMessage(), messages(e.problems())));
         config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
                 e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.UploadTooLargeException.class, (e, ctx) -> problem(ctx, 413, "Content too large",
+                e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
+                e.getMessage(), java.util.List.of()));
         config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
                 detailOf(e, ctx), java.util.List.of()));
         config.routes.exception(Exception.class, (e, ctx) -> {
+            if (StorageFaults.isStorageFault(e)) {
+                StorageFaultLog.note(LOG, ctx.method() + " " + ctx.path(), e);
+                boolean full = StorageFaults.isDiskFull(e);
+                ctx.header("Retry-After", "30");
+                problem(ctx, full ? 507 : 503, full ? "Insufficient storage" : "Service unavailable",
+                        (full ? "The disk holding the store is full" : "The store cannot be used right now")
+                                + "; nothing was changed by this request. Try again once the operator has fixed the "
+                                + "storage (GET /health tells when the store is back).", java.util.List.of());
+                return;
+            }
             LOG.error("unexpected error on {} {}", ctx.method(), ctx.path(), e);
             problem(ctx, 500, "Internal server error", "The server failed while handling this request; the error was logged. "
                     + "Nothing was changed by it unless a job id was returned.", java.util.List.of());

@@ -1,5 +1,8 @@
 package dev.winnow.app;
 
+import dev.winnow.store.H2Url;
+import dev.winnow.store.Limits;
+
 import java.nio.file.Path;
 import java.util.Map;
 
@@ -12,8 +15,9 @@ import java.util.Map;
  * @param dbUrl      WINNOW_DB_URL (default an H2 file under the data dir)
  * @param adminToken WINNOW_ADMIN_TOKEN: bootstrap admin token, or null
  * @param instance   how this instance shares the store with others (pool, role, worker threads, leases, metrics)
+ * @param limits     WINNOW_MAX_UPLOAD_BYTES, WINNOW_MIN_FREE_BYTES and the fixed limits (see {@link Limits})
  */
-public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken, Instance instance) {
+public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken, Instance instance, Limits limits) {
 
     /** What this process does: serve the API, run jobs, or both. */
     public enum Role {
@@ -72,17 +76,22 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
 
     /** A configuration with the defaults for everything not named. */
     public Config(int port, String bind, Path dataDir, String dbUrl, String adminToken) {
-        this(port, bind, dataDir, dbUrl, adminToken, Instance.DEFAULT);
+        this(port, bind, dataDir, dbUrl, adminToken, Instance.DEFAULT, Limits.DEFAULTS);
     }
 
     /** The same configuration on another store. */
     public Config withDbUrl(String url) {
-        return new Config(port, bind, dataDir, url, adminToken, instance);
+        return new Config(port, bind, dataDir, url, adminToken, instance, limits);
     }
 
     /** The same configuration with other instance settings. */
     public Config withInstance(Instance other) {
-        return new Config(port, bind, dataDir, dbUrl, adminToken, other);
+        return new Config(port, bind, dataDir, dbUrl, adminToken, other, limits);
+    }
+
+    /** The same configuration with other limits. */
+    public Config withLimits(Limits newLimits) {
+        return new Config(port, bind, dataDir, dbUrl, adminToken, instance, newLimits);
     }
 
     public int dbPool() {
@@ -96,6 +105,7 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
         if (dbUrl == null || dbUrl.isBlank()) {
             dbUrl = defaultH2Url(dataDir);
         }
+        dbUrl = H2Url.durable(dbUrl.trim());
         String token = env.get("WINNOW_ADMIN_TOKEN");
         Instance instance = new Instance(
                 wholeNumber(env, "WINNOW_DB_POOL", Instance.DEFAULT.dbPool(), 1, 1000),
@@ -103,8 +113,16 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
                 wholeNumber(env, "WINNOW_WORKER_THREADS", Instance.DEFAULT.workerThreads(), 1, 64),
                 wholeNumber(env, "WINNOW_JOB_LEASE_S", Instance.DEFAULT.leaseSeconds(), 3, 86_400),
                 flag(env, "WINNOW_METRICS_PUBLIC"));
+        Limits limits = new Limits(
+                bytes(env, "WINNOW_MAX_UPLOAD_BYTES", Limits.DEFAULTS.maxUploadBytes()),
+                bytes(env, "WINNOW_MIN_FREE_BYTES", Limits.DEFAULTS.minFreeBytes()));
         return new Config(parsedPort, env.getOrDefault("WINNOW_BIND", "127.0.0.1"), dataDir, dbUrl,
-                token == null || token.isBlank() ? null : token, instance);
+                token == null || token.isBlank() ? null : token, instance, limits);
+    }
+
+    private static long bytes(Map<String, String> env, String variable, long defaultValue) {
+        String text = env.get(variable);
+        return text == null || text.isBlank() ? defaultValue : Limits.parseBytes(variable, text);
     }
 
     /** A true/false setting, false when unset. */
@@ -140,7 +158,8 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
 
     /**
      * H2 file store. WRITE_DELAY=0 writes every commit to the file at once (H2 otherwise flushes up to 500 ms later,
-     * so a killed process could lose an acknowledged upload); FILE_LOCK=FS lets a second process fail clearly.
+     * so a killed process could lose an acknowledged upload; {@link H2Url#durable} adds it to operators' URLs too);
+     * FILE_LOCK=FS lets a second process fail clearly.
      */
     public static String defaultH2Url(Path dataDir) {
         return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0";

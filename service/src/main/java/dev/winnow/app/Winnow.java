@@ -2,6 +2,7 @@ package dev.winnow.app;
 
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
+import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.jobs.JobHandler;
 import dev.winnow.jobs.JobKinds;
@@ -12,6 +13,9 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
+import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
@@ -55,8 +59,7 @@ public final class Winnow implements AutoCloseable {
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi);
         LoadingsStore loadings = new LoadingsStore(jdbi);
-        UploadSpool spool = embedded ? new UploadSpool(config.dataDir())
-                : new UploadSpool(config.dataDir(), new dev.winnow.store.SpoolStore(jdbi));
+        UploadSpool spool = new UploadSpool(config.dataDir(), config.limits(), embedded ? null : new dev.winnow.store.SpoolStore(jdbi));
 
         if (embedded) {
             // the embedded store is this process's alone (its file lock refuses a second one), so whatever is
@@ -91,8 +94,32 @@ public final class Winnow implements AutoCloseable {
         Breadth breadth = new Breadth(panels, factors);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
-                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors)), config.bind(), config.port(),
-                instance.role().servesApi());
+                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
+                () -> health(jobs, spool)), config.bind(), config.port(), instance.role().servesApi());
+    }
+
+    /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
+    private Health health(JobStore jobs, UploadSpool spool) {
+        JobStore.QueueCounts queue = null;
+        String store;
+        try {
+            queue = jobs.queueCounts();
+            store = spool.hasMinimumFreeSpace() ? "ok" : "low_space";
+        } catch (RuntimeException e) {
+            store = "unavailable";
+        }
+        if (worker == null) { // WINNOW_ROLE=api: the jobs run on worker instances
+            String status = store.equals("unavailable") ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
+            return new Health(status, store, "none", queue);
+        }
+        JobWorker.State state = worker.state();
+        if (state == JobWorker.State.WAITING_FOR_STORE) {
+            store = "unavailable";
+        }
+        boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
+        String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
+        return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
     }
 
     public static Winnow start(Config config) throws IOException {

@@ -143,6 +143,14 @@ public final class DefinitionJson {
         return o;
     }
 
+    /**
+     * A {@code universe} object as definitions spell it (min_market_cap, labels), for the studies that take one; null
+     * when the node is absent. Problems are added to {@code problems}.
+     */
+    public static Universe readUniverse(JsonNode node, List<String> problems) {
+        return universe(node, problems);
+    }
+
     private static Universe universe(JsonNode node, List<String> problems) {
         if (node == null || node.isNull()) {
             return null;

@@ -17,10 +17,17 @@ final class Eligibility {
 
     /** Eligible row indices of {@code xs}, increasing; {@code signal} aligned with its rows (null: no signal needed). */
     static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal) {
+        boolean needsCap = def.method() != Method.SORT || def.effectiveWeighting() == Weighting.CAP;
+        return rows(def.effectiveUniverse(), xs, signal, needsCap);
+    }
+
+    /**
+     * Row indices of {@code xs}, increasing, with a finite {@code signal} (unless null), a finite positive market_cap
+     * when {@code needsCap}, that pass the universe's restrictions.
+     */
+    static int[] rows(Universe universe, CrossSection xs, double[] signal, boolean needsCap) {
         int n = xs.size();
         double[] caps = xs.marketCaps();
-        boolean needsCap = def.method() != Method.SORT || def.effectiveWeighting() == Weighting.CAP;
-        Universe universe = def.effectiveUniverse();
         Double minCap = universe.minMarketCap();
         String[][] filterLabels = new String[universe.labelFilters().size()][];
         LabelFilter[] filters = new LabelFilter[filterLabels.length];

@@ -3,6 +3,7 @@ package dev.winnow.jobs;
 import dev.winnow.store.JobLease;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.StorageFaults;
 import dev.winnow.store.JsonText;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
@@ -21,11 +22,25 @@ import java.util.concurrent.TimeUnit;
  * shared queue ({@link JobStore#claim}) and running it to the end under a lease that a timer renews every third
  * of its length. A job's failure is recorded on the job; the thread carries on with the next one. A worker that
  * loses a lease (it stalled longer than the lease and another worker claimed the job) cannot apply or record the
- * job any more ({@link JobLease}).
+ * job any more ({@link JobLease}), and leaves its clean-up to the worker that holds it now.
+ *
+ * <p>Nothing a job or the store throws ends the worker. A job that fails on a storage fault (a full disk, a store
+ * that closed itself) is failed with an error that says so; while the store cannot even record that, the worker
+ * waits ({@link State#WAITING_FOR_STORE}) and tries again with a growing pause, so it records the failure and runs
+ * the next job once the storage is back. Job errors never carry exception messages of the store or the JVM (SQL,
+ * bound values, paths): those go to the log, the job gets a sentence and its id as the reference.
  */
 public final class JobWorker implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(JobWorker.class);
-    private static final long IDLE_POLL_MS = 500;
+    private static final long FIRST_PAUSE_MILLIS = 200;
+    private static final long LONGEST_PAUSE_MILLIS = 5_000;
+
+    private static final long IDLE_POLL_MILLIS = 500;
+
+    /** What the worker is doing, for /health. */
+    public enum State {
+        IDLE, RUNNING, WAITING_FOR_STORE, STOPPED, DEAD
+    }
 
     /**
      * @param owner        this worker's name in the job table (unique per process)
@@ -40,7 +55,7 @@ public final class JobWorker implements AutoCloseable {
         }
     }
 
-    /** Told when a job ends (for metrics). */
+    /** Told when a job's end is recorded (for metrics). */
     @FunctionalInterface
     public interface JobObserver {
         void finished(JobRecord job, JobOutcome outcome, long nanos);
@@ -52,6 +67,7 @@ public final class JobWorker implements AutoCloseable {
     private final JobObserver observer;
     private final Object signal = new Object();
     private final List<Thread> threads = new ArrayList<>();
+    private final Map<Thread, State> states = new ConcurrentHashMap<>();
     private final Map<Long, Boolean> runningHere = new ConcurrentHashMap<>();
     private final ScheduledExecutorService renewer;
     private volatile boolean running = true;
@@ -65,6 +81,7 @@ public final class JobWorker implements AutoCloseable {
             Thread t = new Thread(this::loop, "winnow-job-worker-" + (i + 1));
             t.setDaemon(true);
             threads.add(t);
+            states.put(t, State.IDLE);
         }
         this.renewer = Executors.newSingleThreadScheduledExecutor(r -> {
             Thread t = new Thread(r, "winnow-job-leases");
@@ -73,19 +90,12 @@ public final class JobWorker implements AutoCloseable {
         });
     }
 
-    /** Starts the worker threads and routes the queue's wake-ups to them. */
+    /** Starts the worker threads and the lease timer, and routes the queue's wake-ups to them. */
     public void start(JobQueue queue) {
         queue.attach(this);
         long period = Math.max(1000, settings.leaseSeconds() * 1000L / 3);
         renewer.scheduleWithFixedDelay(this::renewLeases, period, period, TimeUnit.MILLISECONDS);
         threads.forEach(Thread::start);
-    }
-
-    /** Tells the worker a job was queued. */
-    public void wake() {
-        synchronized (signal) {
-            signal.notifyAll();
-        }
     }
 
     private void renewLeases() {
@@ -101,40 +111,91 @@ public final class JobWorker implements AutoCloseable {
         }
     }
 
-    private void loop() {
-        while (running) {
-            Optional<JobRecord> next;
-            try {
-                next = jobs.claim(settings.owner(), settings.leaseSeconds());
-            } catch (RuntimeException e) {
-                if (!running) {
-                    return;
-                }
-                LOG.error("could not read the job queue", e);
-                next = Optional.empty();
-            }
-            if (next.isEmpty()) {
-                synchronized (signal) {
-                    try {
-                        signal.wait(IDLE_POLL_MS);
-                    } catch (InterruptedException e) {
-                        return;
-                    }
-                }
-                continue;
-            }
-            JobRecord job = next.get();
-            runningHere.put(job.id(), Boolean.TRUE);
-            try {
-                jobs.runUnderLease(job.id(), settings.owner(), () -> runOne(job));
-            } finally {
-                runningHere.remove(job.id());
-            }
-            wake(); // a job that waited for this one may run now
+    private State state(State s) {
+        states.put(Thread.currentThread(), s);
+        return s;
+    }
+
+    private State myState() {
+        return states.getOrDefault(Thread.currentThread(), State.IDLE);
+    }
+
+    /** Tells the worker a job was queued. */
+    public void wake() {
+        synchronized (signal) {
+            signal.notifyAll();
         }
     }
 
-    private void runOne(JobRecord job) {
+    /**
+     * The worker's state: {@link State#DEAD} when a thread ended without being closed, else waiting for the store
+     * when a thread is, else running when a thread runs a job, else idle.
+     */
+    public State state() {
+        if (!running) {
+            return State.STOPPED;
+        }
+        if (threads.stream().anyMatch(t -> t.getState() == Thread.State.TERMINATED)) {
+            return State.DEAD;
+        }
+        if (states.containsValue(State.WAITING_FOR_STORE)) {
+            return State.WAITING_FOR_STORE;
+        }
+        return states.containsValue(State.RUNNING) ? State.RUNNING : State.IDLE;
+    }
+
+    private void loop() {
+        long pause = FIRST_PAUSE_MILLIS;
+        while (running) {
+            try {
+                // throws when the store is down: nothing is claimed and the loop waits
+                Optional<JobRecord> next = jobs.claim(settings.owner(), settings.leaseSeconds());
+                if (myState() == State.WAITING_FOR_STORE) {
+                    LOG.info("the store answers again; the worker carries on");
+                }
+                pause = FIRST_PAUSE_MILLIS;
+                if (next.isEmpty()) {
+                    state(State.IDLE);
+                    await(IDLE_POLL_MILLIS);
+                    continue;
+                }
+                state(State.RUNNING);
+                JobRecord job = next.get();
+                runningHere.put(job.id(), Boolean.TRUE);
+                try {
+                    jobs.runUnderLease(job.id(), settings.owner(), () -> runOne(job));
+                } finally {
+                    runningHere.remove(job.id());
+                }
+                state(State.IDLE);
+                wake(); // a job that waited for this one may run now
+            } catch (InterruptedException e) {
+                return;
+            } catch (Throwable e) {
+                if (!running) {
+                    return;
+                }
+                if (myState() != State.WAITING_FOR_STORE) {
+                    LOG.error("the job queue cannot be read; the worker waits for the store", e);
+                }
+                state(State.WAITING_FOR_STORE);
+                try {
+                    await(pause);
+                } catch (InterruptedException stop) {
+                    return;
+                }
+                pause = Math.min(LONGEST_PAUSE_MILLIS, pause * 2);
+            }
+        }
+    }
+
+    private void await(long millis) throws InterruptedException {
+        synchronized (signal) {
+            signal.wait(millis);
+        }
+    }
+
+    private void runOne(JobRecord job) throws InterruptedException {
         long started = System.nanoTime();
         JobHandler handler = handlers.get(job.kind());
         ProgressReporter progress = new ProgressReporter(jobs, job.id());
@@ -147,31 +208,78 @@ public final class JobWorker implements AutoCloseable {
         } catch (JobLease.LeaseLostException e) {
             LOG.warn("job {} ({}): {}; leaving it to that worker", job.id(), job.kind(), e.getMessage());
             return;
-        } catch (Exception | OutOfMemoryError e) {
+        } catch (Throwable e) {
             if (!running) {
                 return; // shutting down: the job stays 'running' until it is queued again (H2) or its lease expires
             }
             LOG.error("job {} ({}) failed", job.id(), job.kind(), e);
-            outcome = JobOutcome.failure(progress.latest(), List.of(JobOutcome.error(null, null,
-                    "internal error while running the job: " + e.getClass().getSimpleName() + ": " + e.getMessage())));
+            outcome = JobOutcome.failure(progress.latest(), List.of(JobOutcome.error(null, null, describe(job, e))));
         }
+        if (!record(job, outcome)) {
+            LOG.warn("job {} ({}) was claimed by another worker meanwhile; its end and clean-up are theirs", job.id(), job.kind());
+            return;
+        }
+        observer.finished(job, outcome, System.nanoTime() - started);
         try {
-            boolean recorded = jobs.finish(job.id(), settings.owner(), outcome.succeeded(), outcome.counters(),
-                    outcome.errors().isEmpty() ? null : JsonText.write(outcome.errors()),
-                    outcome.report().isEmpty() ? null : JsonText.write(outcome.report()));
-            if (recorded) {
-                observer.finished(job, outcome, System.nanoTime() - started);
-            } else {
-                LOG.warn("job {} ({}) was claimed by another worker meanwhile; its end is theirs to record", job.id(), job.kind());
+            if (handler != null) {
+                handler.afterEnd(job);
             }
-        } catch (RuntimeException e) {
-            if (!running) {
-                return;
-            }
-            LOG.error("could not record the end of job {}; marking it failed", job.id(), e);
-            jobs.finish(job.id(), settings.owner(), false, outcome.counters(), JsonText.write(List.of(JobOutcome.error(null, null,
-                    "internal error while recording the job's result: " + e.getMessage()))), null);
+        } catch (Throwable e) {
+            LOG.warn("job {} ({}): clean-up after its end failed; what is left is removed at the next start", job.id(), job.kind(), e);
         }
+    }
+
+    /**
+     * Records the job's end, waiting for the store while it cannot be written; false when this worker no longer
+     * holds the job (another claimed it after this worker's lease expired) or the worker is closing.
+     */
+    private boolean record(JobRecord job, JobOutcome outcome) throws InterruptedException {
+        long pause = FIRST_PAUSE_MILLIS;
+        while (running) {
+            try {
+                boolean recorded = jobs.finish(job.id(), settings.owner(), outcome.succeeded(), outcome.counters(),
+                        outcome.errors().isEmpty() ? null : JsonText.write(outcome.errors()),
+                        outcome.report().isEmpty() ? null : JsonText.write(outcome.report()));
+                if (myState() == State.WAITING_FOR_STORE) {
+                    LOG.info("recorded the end of job {} once the store answered again", job.id());
+                    state(State.RUNNING);
+                }
+                return recorded;
+            } catch (Throwable e) {
+                if (!running) {
+                    return false;
+                }
+                if (myState() != State.WAITING_FOR_STORE) {
+                    LOG.error("could not record the end of job {}; the worker waits for the store", job.id(), e);
+                }
+                state(State.WAITING_FOR_STORE);
+                await(pause);
+                pause = Math.min(LONGEST_PAUSE_MILLIS, pause * 2);
+            }
+        }
+        return false;
+    }
+
+    /** The job's error text: what went wrong in words, never the exception's own message from the store or the JVM. */
+    static String describe(JobRecord job, Throwable e) {
+        if (StorageFaults.isDiskFull(e)) {
+            return "the disk holding the store is full, so the job stopped; nothing of it was kept. Ask the operator to "
+                    + "free space on the data directory, then send the upload or definition again (job " + job.id() + ")";
+        }
+        if (StorageFaults.isStorageFault(e)) {
+            return "the store could not be written, so the job stopped; nothing of it was kept. Ask the operator to "
+                    + "check the data directory's disk, then try again (job " + job.id() + ", details in the server log)";
+        }
+        if (e instanceof OutOfMemoryError) {
+            return "the job needed more memory than the server has; nothing of it was kept. Split the upload into "
+                    + "smaller ones or ask the operator to give the service more memory (job " + job.id() + ")";
+        }
+        if ((e instanceof IllegalArgumentException || e instanceof IllegalStateException) && e.getCause() == null
+                && e.getMessage() != null && e.getMessage().length() <= 500) {
+            return "the job could not be completed: " + e.getMessage(); // our own checks, written for the client
+        }
+        return "internal error while running the job; nothing of it was kept and the error was logged on the server "
+                + "(job " + job.id() + ")";
     }
 
     @Override

@@ -119,6 +119,13 @@ public final class PanelUploadJob implements JobHandler {
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
 
+    /** Whatever the end: staged rows that did not commit are discarded and the spooled body removed. */
+    @Override
+    public void afterEnd(JobRecord job) {
+        panels.discardStagingOfJob(job.id());
+        spool.delete((String) JsonText.readMap(job.params()).get("file"));
+    }
+
     /** The earliest of the dates, or null (then a revision rebuilds from scratch). */
     private static LocalDate earliest(List<LocalDate> dates) {
         return dates.stream().min(LocalDate::compareTo).orElse(null);

@@ -80,6 +80,12 @@ public final class SeriesUploadJob implements JobHandler {
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
 
+    /** Whatever the end, the spooled body is removed. */
+    @Override
+    public void afterEnd(JobRecord job) {
+        spool.delete((String) JsonText.readMap(job.params()).get("file"));
+    }
+
     private List<Map<String, Object>> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
         List<Map<String, Object>> rebuilt = new ArrayList<>();
         for (FactorVersionRecord dependent : factors.listCurrent(false)) {

@@ -7,6 +7,7 @@ import dev.winnow.stats.Correlations;
 import dev.winnow.stats.EqualWeightComposite;
 import dev.winnow.stats.EvidenceVerdicts;
 import dev.winnow.stats.EvidenceVerdicts.Section;
+import dev.winnow.stats.LiveRecord;
 import dev.winnow.stats.MonthlyBasis;
 import dev.winnow.stats.PeriodStatistics;
 import dev.winnow.stats.ReturnSeries;
@@ -64,6 +65,28 @@ public final class FactorEvidence {
         text.put("text", rationale);
         out.put("rationale", EvidenceJson.section(text, EvidenceVerdicts.rationale(rationale), null));
         out.put("redundancy", redundancy(monthly, against, unavailable));
+        out.put("live", live(trial, monthly, unavailable));
+        return out;
+    }
+
+    /** The live record: months ending after the day Winnow recorded this version's definition, against those before. */
+    private static Map<String, Object> live(Trial trial, ReturnSeries monthly, String unavailable) {
+        java.time.OffsetDateTime definedAt = trial.version().createdAt();
+        LiveRecord.Result record = LiveRecord.of(monthly, definedAt.atZoneSameInstant(java.time.ZoneOffset.UTC).toLocalDate());
+        Map<String, Object> numbers = new LinkedHashMap<>();
+        numbers.put("defined_at", definedAt);
+        numbers.put("before", liveSide(record.before()));
+        numbers.put("after", liveSide(record.after()));
+        numbers.put("mean_ratio", record.meanRatio());
+        return EvidenceJson.section(numbers, record.verdict(), unavailable);
+    }
+
+    private static Map<String, Object> liveSide(LiveRecord.Side side) {
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("n", side.n());
+        out.put("mean", side.mean());
+        out.put("nw_t_stat", side.nwTStat());
+        out.put("sharpe_monthly", side.sharpeMonthly());
         return out;
     }
 

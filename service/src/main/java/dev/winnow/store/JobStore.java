@@ -5,6 +5,7 @@ import org.jdbi.v3.core.mapper.RowMapper;
 
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
+import java.util.Map;
 import java.util.Optional;
 
 /**
@@ -115,11 +116,6 @@ public final class JobStore {
                 .bind("s", leaseSeconds).bind("id", id).bind("o", owner).execute()) == 1;
     }
 
-    /** Queued jobs plus running ones: the queue depth. */
-    public long queueDepth() {
-        return jdbi.withHandle(h -> h.createQuery("SELECT COUNT(*) FROM jobs WHERE state IN ('queued', 'running')").mapTo(Long.class).one());
-    }
-
     /** How many claims a job took and which worker recorded its end (null while unfinished). */
     public record Claims(int attempts, String finishedBy) {
     }
@@ -138,6 +134,20 @@ public final class JobStore {
     public java.util.List<JobRecord> unfinished(String kind) {
         return jdbi.withHandle(h -> h.createQuery("SELECT " + COLUMNS + " FROM jobs WHERE state IN ('queued', 'running') AND kind = :k ORDER BY id")
                 .bind("k", kind).map(MAPPER).list());
+    }
+
+    /** Jobs waiting and running, for /health. */
+    public record QueueCounts(long queued, long running) {
+    }
+
+    public QueueCounts queueCounts() {
+        return jdbi.withHandle(h -> {
+            long[] counts = new long[2];
+            h.createQuery("SELECT state, COUNT(*) FROM jobs WHERE state IN ('queued', 'running') GROUP BY state")
+                    .map((rs, ctx) -> Map.entry(rs.getString(1), rs.getLong(2)))
+                    .forEach(e -> counts[e.getKey().equals("queued") ? 0 : 1] = e.getValue());
+            return new QueueCounts(counts[0], counts[1]);
+        });
     }
 
     public void updateProgress(long id, Counters c) {

@@ -183,12 +183,12 @@ public final class PanelStore {
     }
 
     /**
-     * Discards what an earlier run of the same job left in staging (its worker died before the commit); the job
-     * then stages its upload again from the start.
+     * Discards what a job staged and did not commit: after it failed on a storage fault, or before it runs again
+     * when an earlier run's worker died before the commit. Returns how many uploads.
      */
     public int discardStagingOfJob(long jobId) {
         return jdbi.inTransaction(h -> {
-            List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE job_id = :j AND state = 'staging'")
+            List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE state = 'staging' AND job_id = :j")
                     .bind("j", jobId).mapTo(Long.class).list();
             for (long id : staging) {
                 discard(h, id);
