@@ -11,7 +11,12 @@ What it writes
   2. fixtures/signal_values.csv: `id,date,security,value` for every recipe at every (grid date, security) with a row,
      on every second grid date (k even) to keep the file small; value empty where missing.
   3. fixtures/signal_definitions.json and fixtures/signal_expected.csv: factor definitions whose signal is a recipe,
-     built by the construction rules of construction_fixtures.py with the recipe's value in place of the column.
+     built by the construction rules of construction_fixtures.py with the recipe's value in place of the column, and
+     the sorts added with recipes: `within` (breakpoints inside label groups), `control` (dependent double sort) and
+     method `rank_weighted` (weights from centred average ranks, scipy.stats.rankdata).
+  4. fixtures/holdings_expected.csv: `id,date,formation_date,leg,security,weight,drifted_weight` for a few of those
+     definitions and the construction fixtures' ones at several dates: the leg weights of the latest formation at or
+     before the date, and those weights drifted through the end of the date.
 
 References, by operation (names beside each use below):
   - rank: scipy.stats.rankdata(method='average'), then (rank - 1) / (n - 1); 0.5 when n = 1.
@@ -92,7 +97,32 @@ DEFINITIONS = [
         "rebalance": "monthly"}),
     ("size_sort_growth_lag2", {"method": "size_sort", "signal": {"growth": {"of": "market_cap", "periods": 5}},
                                "lag": 2, "output": "size"}),
+    ("within_sector_b3_eq_monthly", {"method": "sort", "signal": "bm", "within": "sector", "buckets": 3,
+                                     "rebalance": "monthly"}),
+    ("within_listing_b2_cap_every_lmh", {"method": "sort", "signal": {"rank": "score"}, "within": "listing",
+                                         "buckets": 2, "weighting": "cap", "direction": "low_minus_high"}),
+    ("within_sector_b5_small_groups", {"method": "sort", "signal": "bm", "within": "sector", "buckets": 8,
+                                       "rebalance": "monthly", "cost_bps": 20}),
+    ("control_cap_c3_b3_monthly", {"method": "sort", "signal": "bm", "control": {"signal": "market_cap", "buckets": 3},
+                                   "buckets": 3, "weighting": "cap", "rebalance": "monthly"}),
+    ("control_recipe_c2_b2_every", {"method": "sort", "signal": {"trailing_return": {"periods": 5}},
+                                    "control": {"signal": {"trailing_beta": {"against": "f", "periods": 15}}, "buckets": 2},
+                                    "buckets": 2, "lag": 2, "cost_bps": 5}),
+    ("rank_weighted_bm_monthly", {"method": "rank_weighted", "signal": "bm", "rebalance": "monthly", "cost_bps": 10}),
+    ("rank_weighted_score_every_lmh_universe", {"method": "rank_weighted", "signal": "score",
+                                                "direction": "low_minus_high",
+                                                "universe": {"labels": {"sector": {"exclude": ["D"]}}}}),
+    ("rank_weighted_momentum_quarterly_lag2", {"method": "rank_weighted", "signal": {"trailing_return": {"periods": 8, "skip": 1}},
+                                               "rebalance": "quarterly", "lag": 2}),
 ]
+
+# (definition id, source) pairs whose holdings are written; source "signal" = DEFINITIONS, "construction" = cf.DEFINITIONS
+HOLDINGS = [("sort_momentum_monthly", "signal"), ("control_cap_c3_b3_monthly", "signal"),
+            ("within_sector_b3_eq_monthly", "signal"), ("rank_weighted_bm_monthly", "signal"),
+            ("rank_weighted_score_every_lmh_universe", "signal"),
+            ("sort_bm_b3_cap_monthly", "construction"), ("size_bm_signal_cap_monthly", "construction"),
+            ("size_bm_size_eq_lag2_every_cost", "construction"), ("market_cap_monthly", "construction")]
+HOLDING_DATE_INDICES = [10, 21, 22, 23, 45, 62, 79]
 
 
 # ----------------------------------------------------------------------------------------------- data
@@ -266,16 +296,129 @@ def spec_of(definition):
     for key in ("direction", "buckets", "weighting", "lag", "rebalance", "rebalance_month", "output", "cost_bps"):
         if key in definition:
             d[key] = str(definition[key])
-    return cf.parse_spec(";".join(f"{k}={v}" for k, v in d.items()))
+    if definition["method"] == "rank_weighted":
+        d.setdefault("weighting", "equal")
+    for label, rule in definition.get("universe", {}).get("labels", {}).items():
+        (mode, values), = rule.items()
+        d[mode] = label + ":" + "|".join(values)
+    spec = cf.parse_spec(";".join(f"{k}={v}" for k, v in d.items()))
+    spec["within"] = definition.get("within")
+    spec["control_buckets"] = definition["control"]["buckets"] if "control" in definition else None
+    return spec
 
 
-def with_signal(panel, p, recipe):
-    """The long panel with the recipe's value in a column __signal (construction rules 1-8 then apply unchanged)."""
+def with_signal(panel, p, recipe, name="__signal"):
+    """The long panel with the recipe's value in a column (construction rules 1-8 then apply unchanged)."""
     wide = evaluate(recipe, p)
-    long = wide.stack(dropna=False).rename("__signal").reset_index()
-    long.columns = ["date", "security", "__signal"]
+    long = wide.stack(dropna=False).rename(name).reset_index()
+    long.columns = ["date", "security", name]
     long["date"] = long["date"].dt.date.astype(str)
     return panel.merge(long, on=["date", "security"], how="left")
+
+
+def built_panel(panel, p, definition):
+    built = with_signal(panel, p, definition["signal"])
+    if "control" in definition:
+        built = with_signal(built, p, definition["control"]["signal"], "__control")
+    return built
+
+
+# ------------------------------------------------------------------- within, control and rank_weighted, from the rules
+ORIGINAL_FORM = cf.form
+ORIGINAL_LEGS = cf.legs
+
+
+def form(xs, spec):
+    """The sub-portfolios of one formation, for the sorts added with recipes; the others as construction_fixtures."""
+    empty = pd.Series(dtype=float)
+    if spec["method"] == "rank_weighted":
+        # eligible: finite signal and the universe (no market cap needed: weighting does not apply)
+        elig = xs[cf.eligible_mask(xs, dict(spec, method="sort", weighting="equal"))]
+        if len(elig) < 2:
+            return {"high": empty, "low": empty}
+        a = rankdata(elig[spec["signal"]].to_numpy(), method="average")  # scipy average ranks
+        d = pd.Series(a - (len(elig) + 1) / 2.0, index=elig.index)
+        high, low = d[d > 0], -d[d < 0]
+        return {"high": high / high.sum() if len(high) else empty, "low": low / low.sum() if len(low) else empty}
+    if spec.get("within"):
+        elig = xs[cf.eligible_mask(xs, spec)]
+        elig = elig[elig[spec["within"]].notna()]
+        b = spec["buckets"]
+        lows, highs = [], []
+        for _, group in elig.groupby(spec["within"]):
+            if len(group) < b:
+                continue  # the group sits out this formation
+            cuts = np.quantile(group[spec["signal"]].to_numpy(), np.arange(1, b) / b)  # numpy linear = type 7
+            bucket = 1 + (group[spec["signal"]].to_numpy()[:, None] > cuts[None, :]).sum(axis=1)
+            lows.append(group[bucket == 1])
+            highs.append(group[bucket == b])
+        low = pd.concat(lows) if lows else elig.iloc[0:0]
+        high = pd.concat(highs) if highs else elig.iloc[0:0]
+        return {"low": cf.weights_of(low, spec) if len(low) else empty,
+                "high": cf.weights_of(high, spec) if len(high) else empty}
+    if spec.get("control_buckets"):
+        c, b = spec["control_buckets"], spec["buckets"]
+        elig = xs[cf.eligible_mask(xs, spec) & np.isfinite(xs["__control"].astype(float))]
+        out = {f"{side}{i}": empty for i in range(c) for side in "LH"}
+        if len(elig) == 0:
+            return out
+        ccuts = np.quantile(elig["__control"].to_numpy(), np.arange(1, c) / c)
+        cbucket = (elig["__control"].to_numpy()[:, None] > ccuts[None, :]).sum(axis=1)
+        for i in range(c):
+            inside = elig[cbucket == i]
+            if len(inside) == 0:
+                continue
+            cuts = np.quantile(inside[spec["signal"]].to_numpy(), np.arange(1, b) / b)
+            bucket = 1 + (inside[spec["signal"]].to_numpy()[:, None] > cuts[None, :]).sum(axis=1)
+            low, high = inside[bucket == 1], inside[bucket == b]
+            out[f"L{i}"] = cf.weights_of(low, spec) if len(low) else empty
+            out[f"H{i}"] = cf.weights_of(high, spec) if len(high) else empty
+        return out
+    return ORIGINAL_FORM(xs, spec)
+
+
+def legs(spec):
+    hml = spec["direction"] == "high_minus_low"
+    if spec.get("control_buckets"):
+        high = [f"H{i}" for i in range(spec["control_buckets"])]
+        low = [f"L{i}" for i in range(spec["control_buckets"])]
+        return (high, low) if hml else (low, high)
+    if spec["method"] == "rank_weighted":
+        return (["high"], ["low"]) if hml else (["low"], ["high"])
+    return ORIGINAL_LEGS(spec)
+
+
+cf.form = form
+cf.legs = legs
+
+
+# ------------------------------------------------------------------------------------------------- holdings
+def holdings(panel, spec, indices):
+    """For each grid index D: the latest formation R <= D, its leg weights and those drifted through the end of D."""
+    frame = panel.assign(date=pd.to_datetime(panel["date"]))
+    dates = [pd.Timestamp(d) for d in sorted(frame["date"].unique())]
+    returns = frame.pivot(index="date", columns="security", values="return").reindex(dates)
+    points = [pt for pt in cf.rebalance_points(dates, spec["rebalance"], spec["rebalance_month"])
+              if pt - (spec["lag"] - 1) >= 0]
+    long_names, short_names = legs(spec)
+    out = []
+    for index in indices:
+        formed = [pt for pt in points if pt <= index]
+        if not formed:
+            continue
+        point = formed[-1]
+        xs = frame[frame["date"] == dates[point - (spec["lag"] - 1)]].set_index("security")
+        subs = form(xs, spec)
+        periods = dates[point + 1:index + 1]
+        drifted = subs if not periods else {n: cf.hold(w, returns, periods)[1] for n, w in subs.items()}
+        for leg, names in (("long", long_names), ("short", short_names)):
+            if not names:
+                continue
+            w = cf.leg_weights(subs, names)
+            dw = cf.leg_weights(drifted, names)
+            for sec in sorted(set(w.index) | set(dw.index)):
+                out.append((dates[index], dates[point], leg, int(sec), float(w.get(sec, 0.0)), float(dw.get(sec, 0.0))))
+    return out
 
 
 def fmt(x):
@@ -312,7 +455,7 @@ def main():
     rf = pd.read_csv(os.path.join(FIXTURES, "construction_riskfree.csv"))
     lines = ["id,kind,date,spread,long,short,net,turnover,count"]
     for did, definition in DEFINITIONS:
-        built = with_signal(panel, p, definition["signal"])
+        built = built_panel(panel, p, definition)
         observations, formations, missing = cf.build(built, rf, spec_of(definition))
         for d, s, lo, sh, net in observations:
             lines.append(",".join([did, "obs", d.date().isoformat(), fmt(s), fmt(lo), fmt(sh), fmt(net), "", ""]))
@@ -321,6 +464,20 @@ def main():
         lines.append(",".join([did, "summary", "", "", "", "", "", "", str(missing)]))
         print(f"{did}: {len(observations)} returns, {len(formations)} formations, {missing} periods without")
     with open(os.path.join(FIXTURES, "signal_expected.csv"), "w") as out:
+        out.write("\n".join(lines) + "\n")
+
+    lines = ["id,date,formation_date,leg,security,weight,drifted_weight"]
+    by_id = dict(DEFINITIONS)
+    construction = dict(cf.DEFINITIONS)
+    for hid, source in HOLDINGS:
+        if source == "signal":
+            spec, data = spec_of(by_id[hid]), built_panel(panel, p, by_id[hid])
+        else:
+            spec, data = cf.parse_spec(construction[hid]), panel
+            spec["within"], spec["control_buckets"] = None, None
+        for d, formed, leg, sec, w, dw in holdings(data, spec, HOLDING_DATE_INDICES):
+            lines.append(",".join([hid, d.date().isoformat(), formed.date().isoformat(), leg, str(sec), fmt(w), fmt(dw)]))
+    with open(os.path.join(FIXTURES, "holdings_expected.csv"), "w") as out:
         out.write("\n".join(lines) + "\n")
 
 

@@ -1,11 +1,13 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
@@ -40,7 +42,8 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
+                               FactorHoldings holdings) {
     }
 
     private ApiServer() {
@@ -66,6 +69,7 @@ public final class ApiServer {
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
+        HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
@@ -75,6 +79,10 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
+            config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
+            config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
+            config.routes.before(Requests::checkQueryEscapes);
             if (!servesApi) {
                 config.routes.before(ctx -> {
                     if (!ctx.path().equals("/health") && !ctx.path().equals("/metrics")) {
@@ -91,6 +99,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);
@@ -109,6 +118,7 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
@@ -117,6 +127,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);

@@ -61,8 +61,13 @@ final class TokenRoutes {
 
     void revoke(Context ctx) {
         String name = ctx.pathParam("name");
-        if (!tokens.delete(name)) {
-            throw ApiProblem.notFound("No token named '" + name + "'; GET /v1/tokens lists them.");
+        switch (tokens.revoke(name)) {
+            case NOT_FOUND -> throw ApiProblem.notFound("No token named '" + name + "'; GET /v1/tokens lists them.");
+            case LAST_ADMIN -> throw new ApiProblem(409, "Conflict", "Token '" + name + "' is the last admin token; "
+                    + "revoking it would leave no one able to manage tokens. Create another admin token first "
+                    + "(POST /v1/tokens with scope admin), then revoke this one.");
+            case REVOKED -> {
+            }
         }
         authenticator.refresh();
         ctx.status(204);

@@ -18,6 +18,7 @@ import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
@@ -50,7 +51,7 @@ public final class Winnow implements AutoCloseable {
     private final DemoLoader demo;
 
     private Winnow(Config config) throws IOException {
-        Files.createDirectories(config.dataDir());
+        requireWritable(config.dataDir());
         this.database = openStore(config);
         this.jdbi = database.jdbi();
         boolean embedded = database.dialect() == Database.Dialect.H2;
@@ -85,7 +86,7 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         Config.Instance instance = config.instance();
         this.worker = instance.role().runsJobs()
                 ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()), null)
@@ -96,7 +97,7 @@ public final class Winnow implements AutoCloseable {
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
-                () -> health(jobs, spool)), config.bind(), config.port(), instance.role().servesApi());
+                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port(), instance.role().servesApi());
     }
 
     /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
@@ -120,6 +121,28 @@ public final class Winnow implements AutoCloseable {
         boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
         String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
         return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
+    }
+
+    /** The data directory cannot be created or written; Main prints the message as one line and exits 1. */
+    public static final class DataDirectoryNotWritableException extends IllegalStateException {
+        DataDirectoryNotWritableException(String message) {
+            super(message);
+        }
+    }
+
+    /** Creates the data directory if needed and proves it can be written, before the store opens there. */
+    private static void requireWritable(java.nio.file.Path dir) {
+        try {
+            Files.createDirectories(dir);
+            java.nio.file.Path probe = Files.createTempFile(dir, ".write-check", ".tmp");
+            Files.delete(probe);
+        } catch (IOException | SecurityException e) {
+            String why = e instanceof java.nio.file.AccessDeniedException ? "permission denied"
+                    : e instanceof java.nio.file.FileSystemException fse && fse.getReason() != null ? fse.getReason()
+                    : e.getClass().getSimpleName();
+            throw new DataDirectoryNotWritableException("cannot write to the data directory " + dir + " (" + why
+                    + "); set WINNOW_DATA_DIR to a directory this user can write");
+        }
     }
 
     public static Winnow start(Config config) throws IOException {

@@ -21,6 +21,8 @@ import java.util.StringJoiner;
  * @param riskFree        name of the factor subtracted from the market return (MARKET only)
  * @param universe        eligibility restrictions; default none
  * @param breakpoints     compute breakpoints on the eligible securities whose label matches (SORT, SIZE_SORT)
+ * @param within          label column inside whose groups a SORT computes its breakpoints
+ * @param control         the control signal and bucket count of a dependent double SORT
  * @param costBps         one-way trading cost in basis points charged on turnover; default 0
  * @param theme           free text
  * @param rationale       free text
@@ -40,6 +42,8 @@ public record FactorDefinition(
         String riskFree,
         Universe universe,
         LabelEquals breakpoints,
+        String within,
+        Control control,
         Double costBps,
         String theme,
         String rationale,
@@ -49,7 +53,12 @@ public record FactorDefinition(
         SORT,
         SIZE_SORT,
         MARKET,
+        RANK_WEIGHTED,
         EXTERNAL
+    }
+
+    /** A dependent double sort's first sort: on {@code signal} into {@code buckets} (2..10) buckets. */
+    public record Control(Recipe signal, int buckets) {
     }
 
     public enum Direction {
@@ -88,7 +97,7 @@ public record FactorDefinition(
         if (weighting != null) {
             return weighting;
         }
-        return method == Method.SORT ? Weighting.EQUAL : Weighting.CAP;
+        return method == Method.SORT || method == Method.RANK_WEIGHTED ? Weighting.EQUAL : Weighting.CAP;
     }
 
     public int effectiveLag() {
@@ -129,6 +138,13 @@ public record FactorDefinition(
             key.add("filter=" + f.getKey() + ":" + f.getValue().mode() + ":" + String.join("|", f.getValue().values()));
         }
         key.add("size_half=" + u.sizeHalf()).add("segment=" + u.segment()).add("breakpoints=" + breakpoints);
+        // added with signal recipes; left out when unset so that earlier versions keep their keys
+        if (within != null) {
+            key.add("within=" + within);
+        }
+        if (control != null) {
+            key.add("control=" + (control.signal() == null ? "null" : RecipeJson.canonical(control.signal())) + ":" + control.buckets());
+        }
         return key.toString();
     }
 
@@ -143,14 +159,24 @@ public record FactorDefinition(
         return signal.columnName() != null ? signal.columnName() : RecipeJson.canonical(signal);
     }
 
-    /** The factors whose returns the build reads: the risk_free rate, then those the signal recipe names. */
+    /** The factors whose returns the build reads: the risk_free rate, then those the signal recipes name. */
     public java.util.Set<String> factorsRead() {
         java.util.Set<String> names = new java.util.LinkedHashSet<>();
         if (riskFree != null) {
             names.add(riskFree);
         }
+        names.addAll(recipeFactors());
+        return names;
+    }
+
+    /** The factors the signal and control recipes read (trailing_beta's {@code against}). */
+    public java.util.Set<String> recipeFactors() {
+        java.util.Set<String> names = new java.util.LinkedHashSet<>();
         if (signal != null) {
             names.addAll(signal.factors());
+        }
+        if (control != null && control.signal() != null) {
+            names.addAll(control.signal().factors());
         }
         return names;
     }
@@ -158,7 +184,7 @@ public record FactorDefinition(
     /** The same definition restricted to another universe (all other fields unchanged). */
     public FactorDefinition withUniverse(Universe value) {
         return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance, rebalanceMonth,
-                output, riskFree, value, breakpoints, costBps, theme, rationale, foundOn);
+                output, riskFree, value, breakpoints, within, control, costBps, theme, rationale, foundOn);
     }
 
     public static Builder builder(Method method) {
@@ -180,6 +206,8 @@ public record FactorDefinition(
         private String riskFree;
         private Universe universe;
         private LabelEquals breakpoints;
+        private String within;
+        private Control control;
         private Double costBps;
         private String theme;
         private String rationale;
@@ -255,6 +283,16 @@ public record FactorDefinition(
             return this;
         }
 
+        public Builder within(String value) {
+            within = value;
+            return this;
+        }
+
+        public Builder control(Control value) {
+            control = value;
+            return this;
+        }
+
         public Builder costBps(Double value) {
             costBps = value;
             return this;
@@ -277,7 +315,7 @@ public record FactorDefinition(
 
         public FactorDefinition build() {
             return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance,
-                    rebalanceMonth, output, riskFree, universe, breakpoints, costBps, theme, rationale, foundOn);
+                    rebalanceMonth, output, riskFree, universe, breakpoints, within, control, costBps, theme, rationale, foundOn);
         }
     }
 }

@@ -5,6 +5,8 @@ import dev.winnow.construct.CheckpointedBuild;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.EngineState;
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorEngine;
+import dev.winnow.construct.Holdings;
 import dev.winnow.construct.FactorObservation;
 import dev.winnow.construct.Formation;
 import dev.winnow.stats.ReturnSeries;
@@ -120,6 +122,33 @@ public final class FactorBuilds {
         return report;
     }
 
+    /**
+     * What a version holds at grid date {@code dateIndex} (see {@link FactorEngine#holdings}), replayed from the latest
+     * stored checkpoint at or before its latest formation (from the first date without one); null when no formation
+     * happened by then.
+     */
+    public Holdings holdings(FactorVersionRecord v, int dateIndex) throws FactorBuildException {
+        FactorDefinition def = definition(v);
+        StorePanelSource panel = panelSource(v);
+        int formation = FactorEngine.latestFormation(def, panel.dates(), dateIndex);
+        if (formation < 0) {
+            return null;
+        }
+        StoredCheckpoint start = null;
+        for (StoredCheckpoint c : factors.checkpoints(v.factorId(), v.version())) {
+            if (c.processedDates() <= formation + 1 && resumable(c, def, panel.dates())) {
+                start = c;
+            }
+        }
+        return FactorEngine.holdings(def, panel, riskFree(def), signalFactors(def),
+                start == null ? null : EngineState.fromBytes(start.state()), dateIndex);
+    }
+
+    /** The grid of a version's panel. */
+    public List<LocalDate> grid(FactorVersionRecord v) throws FactorBuildException {
+        return panelSource(v).dates();
+    }
+
     /** Whether the checkpoint still sits at its grid position and belongs to this definition. */
     private static boolean resumable(StoredCheckpoint c, FactorDefinition def, List<LocalDate> dates) {
         int k = c.processedDates();
@@ -173,10 +202,7 @@ public final class FactorBuilds {
     /** The spread series of every factor the signal recipe reads (trailing_beta's {@code against}), current versions. */
     public Map<String, ReturnSeries> signalFactors(FactorDefinition def) throws FactorBuildException {
         Map<String, ReturnSeries> out = new LinkedHashMap<>();
-        if (def.signal() == null) {
-            return out;
-        }
-        for (String name : def.signal().factors()) {
+        for (String name : def.recipeFactors()) {
             FactorVersionRecord f = factors.current(name).orElseThrow(() -> new FactorBuildException(
                     "the signal reads factor '" + name + "', which does not exist; define it first"));
             out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));

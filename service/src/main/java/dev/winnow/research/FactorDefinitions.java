@@ -53,6 +53,10 @@ public final class FactorDefinitions {
     }
 
     public Defined define(String name, JsonNode body) throws InvalidDefinitionException {
+        List<String> tooLong = DefinitionTextLimits.problems(body);
+        if (!tooLong.isEmpty()) {
+            throw new InvalidDefinitionException(tooLong);
+        }
         DefinitionJson.Parsed parsed = DefinitionJson.read(body);
         if (!parsed.ok()) {
             throw new InvalidDefinitionException(parsed.problems());
@@ -76,12 +80,20 @@ public final class FactorDefinitions {
             problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
         }
         if (def.signal() != null) {
-            checkSignalFactors(name, def, problems);
+            checkSignalFactors(name, def.signal(), "signal", problems);
+        }
+        if (def.control() != null && def.control().signal() != null) {
+            checkSignalFactors(name, def.control().signal(), "control.signal", problems);
         }
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
         }
-        DefineOutcome outcome = factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
+        String canonical = DefinitionJson.toCanonicalString(def);
+        if (canonical.length() > dev.winnow.store.Limits.MAX_DEFINITION_CHARS) {
+            throw new InvalidDefinitionException(List.of("the definition is " + canonical.length() + " characters long once "
+                    + "written out; at most " + dev.winnow.store.Limits.MAX_DEFINITION_CHARS + " are kept: shorten the rationale or the signal"));
+        }
+        DefineOutcome outcome = factors.define(name, canonical, DefinitionJson.wire(def.method()), panelId);
         FactorVersionRecord v = outcome.version();
         if (!outcome.created()) {
             return new Defined(v, false, null);
@@ -97,8 +109,8 @@ public final class FactorDefinitions {
      * Every factor a recipe reads must exist, and the factor may not read itself, directly or through the factors it
      * reads (their risk_free rates and signal recipes).
      */
-    private void checkSignalFactors(String name, FactorDefinition def, List<String> problems) {
-        RecipeJson.walk(def.signal(), "signal", (recipe, path) -> {
+    private void checkSignalFactors(String name, Recipe signal, String root, List<String> problems) {
+        RecipeJson.walk(signal, root, (recipe, path) -> {
             if (!(recipe instanceof Recipe.TrailingBeta beta)) {
                 return;
             }

@@ -131,9 +131,54 @@ public final class FactorStore {
      * Re-defining a retired factor brings it back.
      */
     public DefineOutcome define(String name, String definitionJson, String method, Long panelId) {
+        // Concurrent definitions of one factor: in this process they take turns on a lock per name; across
+        // processes the factor row is locked (FOR UPDATE) and a transaction that lost a race on the unique name or
+        // the (factor, version) key is run again, so versions count up without gaps or duplicates.
+        synchronized (DEFINE_LOCKS[Math.floorMod(name.hashCode(), DEFINE_LOCKS.length)]) {
+            for (int attempt = 1; ; attempt++) {
+                try {
+                    return defineOnce(name, definitionJson, method, panelId);
+                } catch (RuntimeException e) {
+                    if (attempt >= 20 || !lostARace(e)) {
+                        throw e;
+                    }
+                    try {
+                        Thread.sleep(java.util.concurrent.ThreadLocalRandom.current().nextLong(5, 25L * attempt));
+                    } catch (InterruptedException stop) {
+                        Thread.currentThread().interrupt();
+                        throw e;
+                    }
+                }
+            }
+        }
+    }
+
+    private static final Object[] DEFINE_LOCKS = new Object[64];
+
+    static {
+        for (int i = 0; i < DEFINE_LOCKS.length; i++) {
+            DEFINE_LOCKS[i] = new Object();
+        }
+    }
+
+    /** A unique-key violation, a serialization failure, a deadlock or a lock timeout: worth another try. */
+    private static boolean lostARace(Throwable e) {
+        for (Throwable t = e; t != null; t = t.getCause() == t ? null : t.getCause()) {
+            if (t instanceof java.sql.SQLException sql && sql.getSQLState() != null) {
+                String state = sql.getSQLState();
+                if (state.equals("23505") || state.equals("40001") || state.equals("40P01") || state.equals("HYT00")
+                        || state.equals("55P03")) {
+                    return true;
+                }
+            }
+        }
+        return false;
+    }
+
+    private DefineOutcome defineOnce(String name, String definitionJson, String method, Long panelId) {
         return jdbi.inTransaction(h -> {
             OffsetDateTime now = OffsetDateTime.now(ZoneOffset.UTC);
-            Optional<Long> existing = h.createQuery("SELECT id FROM factors WHERE name = :n").bind("n", name).mapTo(Long.class).findOne();
+            Optional<Long> existing = h.createQuery("SELECT id FROM factors WHERE name = :n FOR UPDATE").bind("n", name).mapTo(Long.class).findOne();
             long factorId;
             int version;
             if (existing.isEmpty()) {

@@ -17,36 +17,11 @@ public final class TokenStore {
     public record TokenRecord(String name, String scope, String tokenHash, OffsetDateTime createdAt) {
     }
 
-    /** Every token with the epoch they were read at, in one transaction. */
-    public record Snapshot(long epoch, List<TokenRecord> tokens) {
-    }
-
-    public Snapshot snapshot() {
-        return jdbi.inTransaction(h -> new Snapshot(epoch(h), all(h)));
-    }
-
-    /** The token epoch: it changes with every insert and delete, by any instance. */
-    public long epoch() {
-        return jdbi.withHandle(TokenStore::epoch);
-    }
-
-    private static long epoch(org.jdbi.v3.core.Handle h) {
-        return h.createQuery("SELECT epoch FROM token_epoch WHERE id = 1").mapTo(Long.class).one();
-    }
-
-    private static void bumpEpoch(org.jdbi.v3.core.Handle h) {
-        h.createUpdate("UPDATE token_epoch SET epoch = epoch + 1 WHERE id = 1").execute();
-    }
-
     public List<TokenRecord> all() {
-        return jdbi.withHandle(TokenStore::all);
-    }
-
-    private static List<TokenRecord> all(org.jdbi.v3.core.Handle h) {
-        return h.createQuery("SELECT name, scope, token_hash, created_at FROM api_tokens ORDER BY name")
+        return jdbi.withHandle(h -> h.createQuery("SELECT name, scope, token_hash, created_at FROM api_tokens ORDER BY name")
                 .map((rs, ctx) -> new TokenRecord(rs.getString(1), rs.getString(2), rs.getString(3),
                         rs.getObject(4, OffsetDateTime.class)))
-                .list();
+                .list());
     }
 
     /** Inserts a token; false when the name is taken. */
@@ -61,17 +36,33 @@ public final class TokenStore {
                     .bind("name", name).bind("scope", scope).bind("hash", tokenHash)
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .execute();
-            bumpEpoch(h);
             return true;
         });
     }
 
-    public boolean delete(String name) {
+    /** What {@link #revoke} did. */
+    public enum Revocation {
+        REVOKED, NOT_FOUND, LAST_ADMIN
+    }
+
+    /**
+     * Deletes a token unless it is the last admin token (which would lock every admin out until a restart). The
+     * admin rows are locked for the check, so two concurrent revocations cannot remove the last two admins.
+     */
+    public synchronized Revocation revoke(String name) {
         return jdbi.inTransaction(h -> {
+            List<String> admins = h.createQuery("SELECT name FROM api_tokens WHERE scope = 'admin' ORDER BY name FOR UPDATE")
+                    .mapTo(String.class).list();
+            if (admins.size() == 1 && admins.get(0).equals(name)) {
+                return Revocation.LAST_ADMIN;
+            }
             int deleted = h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute();
-            bumpEpoch(h);
-            return deleted;
-        }) > 0;
+            return deleted > 0 ? Revocation.REVOKED : Revocation.NOT_FOUND;
+        });
+    }
+
+    public boolean delete(String name) {
+        return jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0;
     }
 
     public boolean anyWithScope(String scope) {

@@ -94,7 +94,7 @@ class DefinitionValidatorTest {
 
     @Test
     void missingMethodAndSignal() {
-        assertEquals(List.of("method is required: one of sort, size_sort, market, external"),
+        assertEquals(List.of("method is required: one of sort, size_sort, market, rank_weighted, external"),
                 DefinitionValidator.validate(FactorDefinition.builder(null).build(), ACME));
         assertEquals(List.of("signal is required for method size_sort: name a numeric column of the panel"),
                 DefinitionValidator.validate(FactorDefinition.builder(Method.SIZE_SORT).panel("acme").build(), ACME));

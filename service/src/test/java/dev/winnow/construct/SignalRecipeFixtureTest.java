@@ -100,7 +100,7 @@ class SignalRecipeFixtureTest {
     Stream<DynamicTest> factorsOnRecipesMatchThePandasImplementation() {
         Map<String, List<String[]>> expected = SignalFixtures.expectedSeries();
         Map<String, FactorDefinition> definitions = SignalFixtures.definitions();
-        assertEquals(6, definitions.size());
+        assertEquals(14, definitions.size());
         return definitions.entrySet().stream().map(e -> DynamicTest.dynamicTest(e.getKey(), () -> {
             FactorDefinition def = e.getValue();
             assertTrue(DefinitionValidator.validate(def, null).isEmpty(), e.getKey());
