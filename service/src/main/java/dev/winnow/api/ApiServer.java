@@ -59,11 +59,13 @@ public final class ApiServer {
      */
     public static Javalin create(Dependencies d, String host, int port, boolean servesApi) {
         Authenticator auth = new Authenticator(d.tokens());
-        TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
+        TokenRoutes tokens = new TokenRoutes(d.tokens());
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
-        FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
-        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        ServedResponses served = new ServedResponses();
+        FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
+        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
+        LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
         ChartRoutes charts = new ChartRoutes(d.factors());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
@@ -123,6 +125,8 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
+            config.routes.get("/v1/returns", library::returns);
+            config.routes.get("/v1/covariance", library::covariance);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
@@ -138,6 +142,7 @@ public final class ApiServer {
             config.routes.get("/v1/loadings", loadings::get);
             config.routes.get("/v1/loadings/{security}", loadings::securityHistory);
             config.routes.post("/v1/exposures", loadings::exposures);
+            config.routes.post("/v1/risk", library::risk);
             config.routes.put("/v1/panels/{panel}/loadings-config", loadings::putConfig);
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);

@@ -39,8 +39,13 @@ public final class Json {
     }
 
     public static void respond(Context ctx, int status, Object body) {
+        ctx.status(status).contentType("application/json").result(bytes(body));
+    }
+
+    /** A value as UTF-8 JSON bytes. */
+    public static byte[] bytes(Object body) {
         try {
-            ctx.status(status).contentType("application/json").result(MAPPER.writeValueAsBytes(body));
+            return MAPPER.writeValueAsBytes(body);
         } catch (IOException e) {
             throw new IllegalStateException("response could not be written as JSON", e);
         }

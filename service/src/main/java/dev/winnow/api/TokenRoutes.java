@@ -16,11 +16,9 @@ final class TokenRoutes {
     private static final Pattern NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._-]{0,99}");
 
     private final TokenStore tokens;
-    private final Authenticator authenticator;
 
-    TokenRoutes(TokenStore tokens, Authenticator authenticator) {
+    TokenRoutes(TokenStore tokens) {
         this.tokens = tokens;
-        this.authenticator = authenticator;
     }
 
     void create(Context ctx) {
@@ -39,7 +37,6 @@ final class TokenRoutes {
         if (!tokens.insert(name, scope.wireName(), Authenticator.hash(token))) {
             throw new ConflictException("A token named '" + name + "' exists; revoke it first or choose another name.");
         }
-        authenticator.refresh();
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("name", name);
         out.put("scope", scope.wireName());
@@ -69,7 +66,6 @@ final class TokenRoutes {
             case REVOKED -> {
             }
         }
-        authenticator.refresh();
         ctx.status(204);
     }
 }

@@ -38,9 +38,14 @@ final class Bench {
     }
 
     static void run(String[] args) throws Exception {
+        if (args.length > 1 && args[1].equals("serving")) {
+            ServingBench.run();
+            return;
+        }
         int securities = args.length > 1 ? Integer.parseInt(args[1]) : 3000;
         int dates = args.length > 2 ? Integer.parseInt(args[2]) : 6300;
         new Bench().measure(securities, dates);
+        ServingBench.run();
     }
 
     private void measure(int securities, int dates) throws Exception {

@@ -4,6 +4,7 @@ import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
 import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.store.ChangeFeed;
 import dev.winnow.jobs.JobHandler;
 import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
@@ -23,6 +24,8 @@ import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
+import dev.winnow.store.PostgresChangeFeed;
+import dev.winnow.store.LocalChangeFeed;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JsonText;
@@ -43,6 +46,7 @@ public final class Winnow implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Winnow.class);
 
     private final Database database;
+    private final ChangeFeed changes;
     private final Jdbi jdbi;
     private final JobWorker worker;
     private final Javalin http;
@@ -55,10 +59,12 @@ public final class Winnow implements AutoCloseable {
         this.database = openStore(config);
         this.jdbi = database.jdbi();
         boolean embedded = database.dialect() == Database.Dialect.H2;
-        TokenStore tokens = new TokenStore(jdbi);
+        // one process on the embedded store; on PostgreSQL every instance hears the others' commits
+        this.changes = embedded ? new LocalChangeFeed() : PostgresChangeFeed.start(database);
+        TokenStore tokens = new TokenStore(jdbi, changes);
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
-        FactorStore factors = new FactorStore(jdbi);
+        FactorStore factors = new FactorStore(jdbi, changes);
         LoadingsStore loadings = new LoadingsStore(jdbi);
         UploadSpool spool = new UploadSpool(config.dataDir(), config.limits(), embedded ? null : new dev.winnow.store.SpoolStore(jdbi));
 
@@ -279,6 +285,13 @@ public final class Winnow implements AutoCloseable {
         http.stop();
         if (worker != null) {
             worker.close();
+        }
+        if (changes instanceof AutoCloseable closeable) {
+            try {
+                closeable.close();
+            } catch (Exception e) {
+                LOG.warn("could not close the change feed: {}", e.getMessage());
+            }
         }
         database.close();
     }

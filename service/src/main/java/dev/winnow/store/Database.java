@@ -145,6 +145,11 @@ public final class Database implements AutoCloseable {
         }
     }
 
+    /** The JDBC URL the pool connects to (for a connection of its own, such as the change feed's listener). */
+    String jdbcUrl() {
+        return pool.getJdbcUrl();
+    }
+
     public Dialect dialect() {
         return dialect;
     }

@@ -52,8 +52,28 @@ public final class FactorStore {
     private record CachedSeries(long dataVersion, ReturnSeries series) {
     }
 
+    private final ChangeFeed feed;
+    private final FactorCatalog catalog;
+
+    /** A store whose commits are announced on a feed of its own (one process, tests). */
     public FactorStore(Jdbi jdbi) {
+        this(jdbi, new LocalChangeFeed());
+    }
+
+    /** A store that announces every commit on {@code feed}, which the read caches of the API watch. */
+    public FactorStore(Jdbi jdbi, ChangeFeed feed) {
         this.jdbi = jdbi;
+        this.feed = feed;
+        this.catalog = new FactorCatalog(this, feed);
+    }
+
+    /** Factor versions in memory, for the read paths (see {@link FactorCatalog}). */
+    public FactorCatalog catalog() {
+        return catalog;
+    }
+
+    private void announce() {
+        feed.committed(ChangeFeed.Topic.FACTORS);
     }
 
     public record FactorVersionRecord(long factorId, String name, int version, int currentVersion, String definitionJson,
@@ -131,6 +151,14 @@ public final class FactorStore {
      * Re-defining a retired factor brings it back.
      */
     public DefineOutcome define(String name, String definitionJson, String method, Long panelId) {
+        DefineOutcome outcome = defineWithRetries(name, definitionJson, method, panelId);
+        if (outcome.created()) {
+            announce();
+        }
+        return outcome;
+    }
+
+    private DefineOutcome defineWithRetries(String name, String definitionJson, String method, Long panelId) {
         // Concurrent definitions of one factor: in this process they take turns on a lock per name; across
         // processes the factor row is locked (FOR UPDATE) and a transaction that lost a race on the unique name or
         // the (factor, version) key is run again, so versions count up without gaps or duplicates.
@@ -213,8 +241,12 @@ public final class FactorStore {
     }
 
     public boolean retire(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = :now WHERE name = :n AND retired_at IS NULL")
+        boolean retired = jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = :now WHERE name = :n AND retired_at IS NULL")
                 .bind("n", name).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).execute()) > 0;
+        if (retired) {
+            announce();
+        }
+        return retired;
     }
 
     /**
@@ -303,6 +335,7 @@ public final class FactorStore {
                     .bind("s", build.engineState()).bind("r", build.reportJson()).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .bind("f", factorId).bind("v", version).execute();
         });
+        announce();
     }
 
     /** Deletes a version's rows of a table: all of them, those dated on or after {@code from}, or none (from null). */
@@ -355,6 +388,7 @@ public final class FactorStore {
                             + "WHERE factor_id = :f AND version = :v")
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
         });
+        announce();
     }
 
     private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
@@ -382,6 +416,7 @@ public final class FactorStore {
                             + "WHERE factor_id = :f AND version = :v")
                     .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
         });
+        announce();
     }
 
     public byte[] engineState(long factorId, int version) {
@@ -393,32 +428,47 @@ public final class FactorStore {
     public ReturnSeries series(long factorId, int version, Leg leg) {
         long dataVersion = jdbi.withHandle(h -> h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
                 .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L));
+        return series(factorId, version, leg, dataVersion);
+    }
+
+    /**
+     * The same for a version whose data version the caller already knows (from the {@link #catalog()}): no query
+     * when the series of that data version is held in memory.
+     */
+    public ReturnSeries series(FactorVersionRecord v, Leg leg) {
+        return series(v.factorId(), v.version(), leg, v.dataVersion());
+    }
+
+    private ReturnSeries series(long factorId, int version, Leg leg, long dataVersion) {
         SeriesKey key = new SeriesKey(factorId, version, leg);
         CachedSeries cached = recentSeries.get(key);
         if (cached != null && cached.dataVersion() == dataVersion) {
             return cached.series();
         }
-        ReturnSeries series = readSeries(factorId, version, leg);
-        recentSeries.put(key, new CachedSeries(dataVersion, series));
-        return series;
+        CachedSeries read = jdbi.inTransaction(h -> readSeries(h, factorId, version, leg));
+        recentSeries.put(key, read);
+        return read.series();
     }
 
-    private ReturnSeries readSeries(long factorId, int version, Leg leg) {
+    /** The series with the data version it was read at, in one transaction, so the label always fits the rows. */
+    private static CachedSeries readSeries(Handle h, long factorId, int version, Leg leg) {
+        long dataVersion = h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
+                .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L);
         List<LocalDate> dates = new ArrayList<>();
         List<Double> values = new ArrayList<>();
-        jdbi.useHandle(h -> h.createQuery("SELECT obs_date, " + leg.column + " FROM factor_returns WHERE factor_id = :f AND version = :v "
+        h.createQuery("SELECT obs_date, " + leg.column + " FROM factor_returns WHERE factor_id = :f AND version = :v "
                         + "AND " + leg.column + " IS NOT NULL ORDER BY obs_date")
                 .bind("f", factorId).bind("v", version)
                 .map((rs, ctx) -> readPoint(rs))
                 .forEach(p -> {
                     dates.add(p.date());
                     values.add(p.value());
-                }));
+                });
         double[] v = new double[values.size()];
         for (int i = 0; i < v.length; i++) {
             v[i] = values.get(i);
         }
-        return new ReturnSeries(dates.toArray(new LocalDate[0]), v);
+        return new CachedSeries(dataVersion, new ReturnSeries(dates.toArray(new LocalDate[0]), v));
     }
 
     private record Point(LocalDate date, double value) {
