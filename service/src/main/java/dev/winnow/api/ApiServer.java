@@ -49,20 +49,27 @@ public final class ApiServer {
     private ApiServer() {
     }
 
-    public static Javalin create(Dependencies d, String host, int port) {
-        return create(d, host, port, true);
+    /**
+     * What this instance serves: the API or (a worker instance) only {@code /health} and {@code /metrics}; the
+     * metrics registry requests are timed into and its scrape; whether {@code /metrics} needs no token.
+     */
+    public record Serving(boolean servesApi, io.micrometer.core.instrument.MeterRegistry metrics,
+                          java.util.function.Supplier<String> scrape, boolean metricsPublic) {
     }
 
     /**
-     * The HTTP server; with {@code servesApi} false (a worker instance) only {@code /health} and {@code /metrics}
-     * answer, everything else is a 404 saying so.
+     * The HTTP server; with {@code servesApi} false only {@code /health} and {@code /metrics} answer, everything
+     * else is a 404 saying so.
      */
-    public static Javalin create(Dependencies d, String host, int port, boolean servesApi) {
+    public static Javalin create(Dependencies d, String host, int port, Serving serving) {
+        boolean servesApi = serving.servesApi();
+        MetricsEndpoint metrics = new MetricsEndpoint(serving.metrics(), serving.scrape());
         Authenticator auth = new Authenticator(d.tokens());
         TokenRoutes tokens = new TokenRoutes(d.tokens());
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         ServedResponses served = new ServedResponses();
+        metrics.watch(served);
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
         LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
@@ -80,6 +87,7 @@ public final class ApiServer {
             config.startup.showJavalinBanner = false;
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
+            config.requestLogger.http(metrics::record);
 
             ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
             config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
@@ -93,7 +101,12 @@ public final class ApiServer {
                     }
                 });
             }
-            config.routes.before(auth::check);
+            config.routes.before(ctx -> {
+                if (!(serving.metricsPublic() && ctx.path().equals("/metrics"))) {
+                    auth.check(ctx);
+                }
+            });
+            config.routes.get("/metrics", metrics::scrape);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
                 Json.respond(ctx, health.serving() ? 200 : 503, health);

@@ -45,6 +45,7 @@ import java.util.Map;
 public final class Winnow implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Winnow.class);
 
+    private final ServiceMetrics metrics;
     private final Database database;
     private final ChangeFeed changes;
     private final Jdbi jdbi;
@@ -56,7 +57,8 @@ public final class Winnow implements AutoCloseable {
 
     private Winnow(Config config) throws IOException {
         requireWritable(config.dataDir());
-        this.database = openStore(config);
+        this.metrics = new ServiceMetrics();
+        this.database = openStore(config, metrics);
         this.jdbi = database.jdbi();
         boolean embedded = database.dialect() == Database.Dialect.H2;
         // one process on the embedded store; on PostgreSQL every instance hears the others' commits
@@ -65,6 +67,8 @@ public final class Winnow implements AutoCloseable {
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi, changes);
+        metrics.watchQueue(jobs);
+        metrics.watchSeriesCache(factors);
         LoadingsStore loadings = new LoadingsStore(jdbi);
         UploadSpool spool = new UploadSpool(config.dataDir(), config.limits(), embedded ? null : new dev.winnow.store.SpoolStore(jdbi));
 
@@ -95,7 +99,8 @@ public final class Winnow implements AutoCloseable {
         Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         Config.Instance instance = config.instance();
         this.worker = instance.role().runsJobs()
-                ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()), null)
+                ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()),
+                        metrics.jobObserver())
                 : null;
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
@@ -103,7 +108,8 @@ public final class Winnow implements AutoCloseable {
                 new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
-                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port(), instance.role().servesApi());
+                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port(),
+                new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
     /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
@@ -161,9 +167,9 @@ public final class Winnow implements AutoCloseable {
     }
 
     /** Opens the store; an embedded store that another process holds is refused with one line naming the directory. */
-    private static Database openStore(Config config) {
+    private static Database openStore(Config config, ServiceMetrics metrics) {
         try {
-            return Database.open(config.dbUrl(), config.dbPool(), null);
+            return Database.open(config.dbUrl(), config.dbPool(), metrics.registry());
         } catch (RuntimeException e) {
             if (Database.isEmbeddedStoreInUse(e)) {
                 throw new StoreInUseException("the store in " + config.dataDir() + " is in use by another Winnow process; "
@@ -294,5 +300,6 @@ public final class Winnow implements AutoCloseable {
             }
         }
         database.close();
+        metrics.close();
     }
 }

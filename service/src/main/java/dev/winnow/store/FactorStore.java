@@ -55,6 +55,19 @@ public final class FactorStore {
     private final ChangeFeed feed;
     private final FactorCatalog catalog;
 
+    private final java.util.concurrent.atomic.LongAdder seriesCacheHits = new java.util.concurrent.atomic.LongAdder();
+    private final java.util.concurrent.atomic.LongAdder seriesCacheMisses = new java.util.concurrent.atomic.LongAdder();
+
+    /** Series lookups answered from the cache since start (for /metrics). */
+    public long seriesCacheHits() {
+        return seriesCacheHits.sum();
+    }
+
+    /** Series lookups that read the store since start (for /metrics). */
+    public long seriesCacheMisses() {
+        return seriesCacheMisses.sum();
+    }
+
     /** A store whose commits are announced on a feed of its own (one process, tests). */
     public FactorStore(Jdbi jdbi) {
         this(jdbi, new LocalChangeFeed());
@@ -443,8 +456,10 @@ public final class FactorStore {
         SeriesKey key = new SeriesKey(factorId, version, leg);
         CachedSeries cached = recentSeries.get(key);
         if (cached != null && cached.dataVersion() == dataVersion) {
+            seriesCacheHits.increment();
             return cached.series();
         }
+        seriesCacheMisses.increment();
         CachedSeries read = jdbi.inTransaction(h -> readSeries(h, factorId, version, leg));
         recentSeries.put(key, read);
         return read.series();
