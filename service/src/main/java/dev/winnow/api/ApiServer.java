@@ -7,6 +7,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
@@ -43,7 +44,7 @@ public final class ApiServer {
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
-                               FactorHoldings holdings) {
+                               FactorHoldings holdings, Families families) {
     }
 
     private ApiServer() {
@@ -79,6 +80,7 @@ public final class ApiServer {
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
+        FamilyRoutes families = new FamilyRoutes(d.families());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
@@ -134,6 +136,10 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
             config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
+            config.routes.put("/v1/families/{family}", families::declare);
+            config.routes.get("/v1/families", families::list);
+            config.routes.get("/v1/families/{family}", families::get);
+            config.routes.delete("/v1/families/{family}", families::delete);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
@@ -179,6 +185,8 @@ public final class ApiServer {
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
         config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
+                e.getMessage(), messages(e.problems())));
+        config.routes.exception(Families.InvalidFamilyException.class, (e, ctx) -> problem(ctx, 400, "Invalid family",
                 e.getMessage(), messages(e.problems())));
         config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
                 e.getMessage(), java.util.List.of()));

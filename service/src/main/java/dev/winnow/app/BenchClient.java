@@ -51,6 +51,20 @@ public final class BenchClient {
         return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
     }
 
+    /** PUTs a variant family; returns the job id of the 202 answer. */
+    public String declareFamily(String name, String declaration) throws IOException, InterruptedException {
+        HttpRequest request = HttpRequest.newBuilder(uri("/v1/families/" + name))
+                .header("Authorization", "Bearer " + token).header("Content-Type", "application/json")
+                .PUT(HttpRequest.BodyPublishers.ofString(declaration)).build();
+        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
+    }
+
+    /** A DELETE with the token; returns the status code. */
+    public int delete(String path) throws IOException, InterruptedException {
+        return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).DELETE()
+                .timeout(Duration.ofSeconds(60)).build(), HttpResponse.BodyHandlers.discarding()).statusCode();
+    }
+
     /** A GET with the token. */
     public HttpResponse<String> get(String path) throws IOException, InterruptedException {
         return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).GET()

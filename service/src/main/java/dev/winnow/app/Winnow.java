@@ -19,6 +19,7 @@ import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
@@ -27,6 +28,7 @@ import dev.winnow.store.Database;
 import dev.winnow.store.PostgresChangeFeed;
 import dev.winnow.store.LocalChangeFeed;
 import dev.winnow.store.FactorStore;
+import dev.winnow.store.FamilyStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsStore;
@@ -104,11 +106,13 @@ public final class Winnow implements AutoCloseable {
                 : null;
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
+        TrialLibrary library = new TrialLibrary(factors);
+        Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
-                new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
+                library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
-                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port(),
+                () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
@@ -221,6 +225,13 @@ public final class Winnow implements AutoCloseable {
         for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FACTOR_BUILD)) {
             Map<String, Object> params = JsonText.readMap(job.params());
             queued.add(params.get("factor") + "#" + params.get("version"));
+        }
+        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FAMILY_BUILD)) {
+            @SuppressWarnings("unchecked")
+            java.util.List<Map<String, Object>> versions = (java.util.List<Map<String, Object>>) JsonText.readMap(job.params()).get("versions");
+            for (Map<String, Object> v : versions) {
+                queued.add(v.get("factor") + "#" + v.get("version"));
+            }
         }
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {

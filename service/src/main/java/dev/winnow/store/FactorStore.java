@@ -21,11 +21,13 @@ import java.util.Optional;
 /** Factors, their immutable versions and each version's series. */
 public final class FactorStore {
     private static final String VERSION_COLUMNS = "f.id, f.name, v.version, f.current_version, v.definition, v.method, v.panel_id, "
-            + "v.status, v.data_version, v.build_report, v.created_at, v.built_at, f.retired_at";
+            + "v.status, v.data_version, v.build_report, v.created_at, v.built_at, f.retired_at, "
+            + "(SELECT fam.name FROM families fam WHERE fam.id = f.family_id)";
     private static final RowMapper<FactorVersionRecord> VERSION = (rs, ctx) -> new FactorVersionRecord(
             rs.getLong(1), rs.getString(2), rs.getInt(3), rs.getInt(4), rs.getString(5), rs.getString(6),
             (Long) rs.getObject(7, Long.class), rs.getString(8), rs.getLong(9), rs.getString(10),
-            rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class));
+            rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class),
+            rs.getString(14));
 
     private static final String CHECKPOINT_COLUMNS = "processed_dates, last_date, observations, periods_without_return, state";
     private static final RowMapper<StoredCheckpoint> CHECKPOINT = (rs, ctx) -> new StoredCheckpoint(
@@ -91,7 +93,8 @@ public final class FactorStore {
 
     public record FactorVersionRecord(long factorId, String name, int version, int currentVersion, String definitionJson,
                                       String method, Long panelId, String status, long dataVersion, String buildReport,
-                                      OffsetDateTime createdAt, OffsetDateTime builtAt, OffsetDateTime retiredAt) {
+                                      OffsetDateTime createdAt, OffsetDateTime builtAt, OffsetDateTime retiredAt,
+                                      String family) {
         public boolean retired() {
             return retiredAt != null;
         }
@@ -251,6 +254,18 @@ public final class FactorStore {
     }
 
     public record DefineOutcome(FactorVersionRecord version, boolean created) {
+    }
+
+    /** Makes an existing version the factor's current one (a family variant whose definition returned to it). */
+    public void makeCurrent(long factorId, int version) {
+        jdbi.useHandle(h -> h.createUpdate("UPDATE factors SET current_version = :v WHERE id = :f")
+                .bind("v", version).bind("f", factorId).execute());
+    }
+
+    /** Brings a retired factor back with its current version (a re-declared family variant whose definition is unchanged). */
+    public boolean unretire(String name) {
+        return jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = NULL WHERE name = :n AND retired_at IS NOT NULL")
+                .bind("n", name).execute()) > 0;
     }
 
     public boolean retire(String name) {
