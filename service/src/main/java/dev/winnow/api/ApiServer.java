@@ -11,6 +11,7 @@ import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
 import dev.winnow.research.LoadingsService;
@@ -45,6 +46,7 @@ public final class ApiServer {
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
+                               InformationCoefficients informationCoefficients,
                                Health.Check health, FactorHoldings holdings, Families families) {
     }
 
@@ -82,7 +84,8 @@ public final class ApiServer {
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         FamilyRoutes families = new FamilyRoutes(d.families());
-        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios(),
+                d.informationCoefficients());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -168,6 +171,7 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
             config.routes.get("/v1/factors/{factor}/portfolios", crossSection::portfolios);
+            config.routes.get("/v1/factors/{factor}/ic", crossSection::informationCoefficients);
             config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
             config.routes.get("/v1/model-tests", crossSection::modelTests);
 

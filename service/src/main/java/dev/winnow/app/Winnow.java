@@ -16,6 +16,7 @@ import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
@@ -113,7 +114,7 @@ public final class Winnow implements AutoCloseable {
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
-                () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
+                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
