@@ -20,7 +20,7 @@ import java.util.concurrent.atomic.AtomicLongArray;
  *
  * <p>Latency: PostgreSQL hands a notification to every listening session when the sending transaction commits;
  * the listener waits on its socket and wakes at once, so another instance sees a commit within its round trip to
- * the server (measured on loopback: well under a millisecond, see DEVELOPERS.md). When the listener loses its
+ * the server (DEVELOPERS.md gives the figures measured here). When the listener loses its
  * connection it reconnects, and bumps every topic on reconnecting, since notifications sent meanwhile are lost:
  * caches then reload rather than serve what they held.
  */
