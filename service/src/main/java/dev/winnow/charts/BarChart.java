@@ -43,21 +43,12 @@ public record BarChart(String xLabel, String yLabel, ValueAxis.Format format, Li
         // room for the notes beyond the longest bars
         double pad = (hi - lo) * 0.12;
         ValueAxis axis = ValueAxis.linear(lo < 0 ? lo - pad : lo, hi > 0 ? hi + pad : hi, Math.max(3, (int) (plotH / 45)), format);
-        java.util.function.DoubleUnaryOperator yOf = v -> plotY + plotH - axis.fraction(v) * plotH;
+        java.util.function.DoubleUnaryOperator yOf = v -> axis.y(v, plotY, plotH);
 
         Svg svg = frame.begin("bars");
         svg.open("g", "id", "plot", "data-plot", Svg.num(plotX) + " " + Svg.num(plotY) + " " + Svg.num(plotW) + " " + Svg.num(plotH),
                 "data-y-domain", axis.min() + " " + axis.max(), "data-y-scale", "linear").newline();
-        svg.open("g", "class", "y-axis").newline();
-        for (ValueAxis.Tick t : axis.ticks()) {
-            double y = yOf.applyAsDouble(t.value());
-            svg.empty("line", "x1", plotX, "x2", plotX + plotW, "y1", y, "y2", y, "stroke", Palette.GRID, "stroke-width", "1");
-            svg.text("text", t.label(), "class", "y-tick", "data-value", String.valueOf(t.value()), "x", plotX - 6, "y", y + 4,
-                    "text-anchor", "end", "fill", Palette.BLACK).newline();
-        }
-        svg.text("text", yLabel, "class", "axis-label", "transform", "translate(16 " + Svg.num(plotY + plotH / 2) + ") rotate(-90)",
-                "text-anchor", "middle", "fill", Palette.BLACK).newline();
-        svg.close("g").newline();
+        axis.draw(svg, plotX, plotY, plotW, plotH, yLabel);
 
         double slot = plotW / bars.size();
         double width = Math.max(2, slot * 0.6);
