@@ -132,6 +132,27 @@ public record FactorDefinition(
         return key.toString();
     }
 
+    /**
+     * The panel columns besides return and market_cap that building this definition reads: the signal, the label
+     * columns of universe filters and segment, and the breakpoint subset's column. A panel source may leave every
+     * other column out.
+     */
+    public java.util.Set<String> columnsRead() {
+        java.util.Set<String> columns = new java.util.TreeSet<>();
+        if (signal != null) {
+            columns.add(signal);
+        }
+        Universe u = effectiveUniverse();
+        columns.addAll(u.labelFilters().keySet());
+        if (u.segment() != null) {
+            columns.add(u.segment().column());
+        }
+        if (breakpoints != null) {
+            columns.add(breakpoints.column());
+        }
+        return columns;
+    }
+
     /** The same definition restricted to another universe (all other fields unchanged). */
     public FactorDefinition withUniverse(Universe value) {
         return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance, rebalanceMonth,

@@ -66,7 +66,7 @@ public final class FactorBuilds {
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
     public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), null, 0, 0, checkpointDates);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), null, 0, 0, checkpointDates);
         Map<String, Object> report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
@@ -83,7 +83,7 @@ public final class FactorBuilds {
         Map<String, Object> previous = v.buildReport() == null ? Map.of() : JsonText.readMap(v.buildReport());
         int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), state,
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), state,
                 previousObservations, previousMissing, checkpointDates);
         Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
@@ -99,7 +99,7 @@ public final class FactorBuilds {
      */
     public Map<String, Object> rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        StorePanelSource panel = panelSource(v);
+        StorePanelSource panel = panelSource(v, def);
         StoredCheckpoint checkpoint = earliestChanged == null ? null
                 : factors.latestCheckpointBefore(v.factorId(), v.version(), earliestChanged)
                         .filter(c -> resumable(c, def, panel.dates()))
@@ -153,11 +153,12 @@ public final class FactorBuilds {
         return report;
     }
 
-    private StorePanelSource panelSource(FactorVersionRecord v) throws FactorBuildException {
+    /** The version's panel, decoding only the columns the definition reads. */
+    private StorePanelSource panelSource(FactorVersionRecord v, FactorDefinition def) throws FactorBuildException {
         if (v.panelId() == null) {
             throw new FactorBuildException("factor '" + v.name() + "' has no panel to build from");
         }
-        return new StorePanelSource(panels, v.panelId());
+        return new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
     }
 
     private ReturnSeries riskFree(FactorDefinition def) throws FactorBuildException {

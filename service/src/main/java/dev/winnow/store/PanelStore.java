@@ -206,6 +206,34 @@ public final class PanelStore {
                 .bind("p", panelId).mapTo(LocalDate.class).list());
     }
 
+    /**
+     * The visible cross-sections at consecutive grid dates (ascending, from {@link #dates}) in one query, decoding only
+     * the extra columns {@code columns} accepts; a date without a visible slice gets an empty cross-section.
+     */
+    public List<CrossSection> slices(long panelId, List<LocalDate> gridDates, java.util.function.Predicate<String> columns) {
+        if (gridDates.isEmpty()) {
+            return List.of();
+        }
+        Map<LocalDate, byte[]> payloads = new HashMap<>();
+        jdbi.useHandle(h -> h.createQuery("SELECT p.slice_date, p.payload FROM slice_payloads p JOIN uploads u ON u.id = p.upload_id "
+                        + "AND u.state = 'committed' WHERE p.panel_id = :p AND p.slice_date >= :from AND p.slice_date <= :to")
+                .bind("p", panelId).bind("from", gridDates.get(0)).bind("to", gridDates.get(gridDates.size() - 1))
+                .map((rs, ctx) -> Map.entry(rs.getObject(1, LocalDate.class), rs.getBytes(2)))
+                .forEach(e -> payloads.put(e.getKey(), e.getValue())));
+        List<CrossSection> out = new ArrayList<>(gridDates.size());
+        for (LocalDate date : gridDates) {
+            byte[] payload = payloads.remove(date);
+            out.add(payload == null ? new CrossSection(date, new int[0], new double[0], new double[0], Map.of(), Map.of())
+                    : CrossSectionCodec.decode(date, payload, columns));
+        }
+        return out;
+    }
+
+    /** Stages the slices of an upload from a background thread, in batches (see {@link SliceStager}). */
+    public SliceStager stager(long panelId, long uploadId) {
+        return new SliceStager(jdbi, panelId, uploadId);
+    }
+
     /** The visible cross-section at a date, or an empty one when the panel has no rows there. */
     public CrossSection slice(long panelId, LocalDate date) {
         return jdbi.withHandle(h -> h.createQuery("SELECT p.payload FROM slice_payloads p JOIN uploads u ON u.id = p.upload_id "
