@@ -76,7 +76,7 @@ public final class PanelUploadJob implements JobHandler {
             PanelParseResult result;
             long parseStart = System.nanoTime();
             try (SliceStager stager = panels.stager(panelId, uploadId)) {
-                SecurityDictionary ids = panels.securityDictionary(panelId, uploadId);
+                SecurityDictionary ids = panels.batchedSecurityDictionary(panelId, uploadId);
                 result = parser.parse(upload, ids::idFor, new CrossSectionSink() {
                             @Override
                             public void accept(CrossSection cs) throws InterruptedException {
@@ -91,6 +91,7 @@ public final class PanelUploadJob implements JobHandler {
                         p -> progress.report(new Counters(0.9 * p.fraction(), p.rowsRead(), p.rowsAccepted(), p.rowsRejected())));
                 if (result.accepted()) {
                     long parsed = System.nanoTime();
+                    ids.flush();
                     SliceStager.Stats staged = stager.finish();
                     timings.put("parse", millis(parsed - parseStart));
                     timings.put("staging_after_parse", millis(System.nanoTime() - parsed));

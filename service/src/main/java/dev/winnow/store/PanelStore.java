@@ -102,12 +102,21 @@ public final class PanelStore {
 
     /** The panel's security dictionary; new codes get the next ids and are recorded against the staging upload. */
     public SecurityDictionary securityDictionary(long panelId, long uploadId) {
+        return dictionary(panelId, uploadId, false);
+    }
+
+    /** As {@link #securityDictionary}, writing new codes in batches: call {@link SecurityDictionary#flush} before the commit. */
+    public SecurityDictionary batchedSecurityDictionary(long panelId, long uploadId) {
+        return dictionary(panelId, uploadId, true);
+    }
+
+    private SecurityDictionary dictionary(long panelId, long uploadId, boolean batched) {
         Map<String, Integer> ids = new HashMap<>();
         jdbi.useHandle(h -> h.createQuery("SELECT code, security_id FROM panel_securities WHERE panel_id = :p")
                 .bind("p", panelId)
                 .map((rs, ctx) -> Map.entry(rs.getString(1), rs.getInt(2)))
                 .forEach(e -> ids.put(e.getKey(), e.getValue())));
-        return new SecurityDictionary(jdbi, panelId, uploadId, ids);
+        return new SecurityDictionary(jdbi, panelId, uploadId, ids, batched);
     }
 
     /** Codes by security id, for responses that name securities. */
