@@ -1,10 +1,10 @@
 package dev.winnow.api;
 
+import dev.winnow.research.StoredCosts;
 import dev.winnow.stats.CorrelationMatrix;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.DrawdownReport;
 import dev.winnow.stats.Drawdowns;
-import dev.winnow.stats.Frequency;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.stats.RollingCorrelation;
 import dev.winnow.stats.RollingSignificance;
@@ -15,17 +15,13 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
-import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Locale;
 import java.util.Map;
 
 /** Summary statistics, drawdowns, rolling significance and correlations over stored series. */
 final class AnalyticsRoutes {
-    private static final int MAX_CORRELATION_FACTORS = 200;
-
     private final FactorStore factors;
 
     AnalyticsRoutes(FactorStore factors) {
@@ -38,7 +34,7 @@ final class AnalyticsRoutes {
         if (Responses.notModified(ctx, request.version(), false)) {
             return;
         }
-        SeriesRequest.Resolved resolved = nonEmpty(request);
+        SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factor", request.version().name());
         out.put("version", request.version().version());
@@ -56,7 +52,7 @@ final class AnalyticsRoutes {
         if (Responses.notModified(ctx, request.version(), false)) {
             return;
         }
-        SeriesRequest.Resolved resolved = nonEmpty(request);
+        SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
         DrawdownReport report = Drawdowns.analyze(resolved.series(), top);
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factor", request.version().name());
@@ -90,7 +86,7 @@ final class AnalyticsRoutes {
         if (Responses.notModified(ctx, request.version(), false)) {
             return;
         }
-        SeriesRequest.Resolved resolved = nonEmpty(request);
+        SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
         ReturnSeries series = resolved.series();
         if (window > series.size()) {
             throw ApiProblem.badRequest("window " + window + " is larger than the " + series.size()
@@ -119,21 +115,20 @@ final class AnalyticsRoutes {
     }
 
     void correlations(Context ctx) {
-        List<String> names = factorList(ctx, 2);
-        Correlations.Method method = methodParam(ctx);
-        List<ReturnSeries> series = loadAll(ctx, names);
-        CorrelationMatrix m = Correlations.matrix(series, method);
-        rejectEmptyOverlap(names, m.observations());
+        CorrelationRequest request = CorrelationRequest.of(ctx, factors, 2);
+        CorrelationMatrix m = Correlations.matrix(request.series(), request.method());
+        request.rejectEmptyOverlap(m.observations());
         Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factors", names);
-        out.put("method", method.name().toLowerCase(Locale.ROOT));
+        out.put("factors", request.names());
+        out.put("method", request.methodName());
         out.put("matrix", m.matrix());
         out.put("observations", m.observations());
         Json.respond(ctx, out);
     }
 
     void rollingCorrelation(Context ctx) {
-        List<String> names = factorList(ctx, 2);
+        CorrelationRequest request = CorrelationRequest.of(ctx, factors, 2);
+        List<String> names = request.names();
         if (names.size() != 2) {
             throw ApiProblem.badRequest("Rolling correlation takes exactly two factors, as factors=a,b; got " + names.size() + ".");
         }
@@ -141,83 +136,23 @@ final class AnalyticsRoutes {
         if (window == null) {
             throw ApiProblem.badRequest("Query parameter 'window' is required: the number of common observations per window (at least 3).");
         }
-        Correlations.Method method = methodParam(ctx);
-        List<ReturnSeries> series = loadAll(ctx, names);
-        int common = Correlations.matrix(series, method).observations()[0][1];
+        List<ReturnSeries> series = request.series();
+        int common = Correlations.matrix(series, request.method()).observations()[0][1];
         if (common < window) {
             throw ApiProblem.badRequest("The two series share " + common + " dates in range, fewer than window " + window
                     + "; choose a smaller window or a wider range.");
         }
-        RollingCorrelation rolling = Correlations.rolling(series.get(0), series.get(1), window, method);
+        RollingCorrelation rolling = Correlations.rolling(series.get(0), series.get(1), window, request.method());
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("factors", names);
-        out.put("method", method.name().toLowerCase(Locale.ROOT));
+        out.put("method", request.methodName());
         out.put("window", window);
         out.put("dates", rolling.dates());
         out.put("values", rolling.values());
         Json.respond(ctx, out);
     }
 
-    private List<ReturnSeries> loadAll(Context ctx, List<String> names) {
-        LocalDate from = Requests.dateParam(ctx, "from");
-        LocalDate to = Requests.dateParam(ctx, "to");
-        Requests.checkRange(from, to);
-        Frequency target = SeriesRequest.frequencyParam(ctx);
-        List<ReturnSeries> out = new ArrayList<>();
-        for (String name : names) {
-            FactorVersionRecord v = factors.current(name)
-                    .orElseThrow(() -> ApiProblem.badRequest("Unknown factor '" + name + "' in 'factors'; GET /v1/factors lists them."));
-            SeriesRequest.Resolved r = new SeriesRequest(v, FactorStore.Leg.SPREAD, from, to, target).load(factors);
-            if (r.series().size() == 0) {
-                throw ApiProblem.badRequest("Factor '" + name + "' has no observations in the requested range.");
-            }
-            out.add(r.series());
-        }
-        return out;
-    }
-
-    /** A pair without a single common date is a request that cannot be answered (400), not a null in the matrix. */
-    private static void rejectEmptyOverlap(List<String> names, int[][] observations) {
-        for (int i = 0; i < names.size(); i++) {
-            for (int j = i + 1; j < names.size(); j++) {
-                if (observations[i][j] == 0) {
-                    throw ApiProblem.badRequest("Factors '" + names.get(i) + "' and '" + names.get(j) + "' have no dates in common"
-                            + " in the requested range; leave one of them out or widen 'from'/'to'.");
-                }
-            }
-        }
-    }
-
-    private static List<String> factorList(Context ctx, int min) {
-        List<String> names = Requests.listParam(ctx, "factors");
-        if (names == null || names.size() < min) {
-            throw ApiProblem.badRequest("Query parameter 'factors' must list at least " + min + " factor names separated by commas.");
-        }
-        if (names.size() > MAX_CORRELATION_FACTORS) {
-            throw ApiProblem.badRequest("At most " + MAX_CORRELATION_FACTORS + " factors per request; got " + names.size() + ".");
-        }
-        if (names.stream().distinct().count() != names.size()) {
-            throw ApiProblem.badRequest("Query parameter 'factors' names a factor twice; list each once.");
-        }
-        return names;
-    }
-
-    private static Correlations.Method methodParam(Context ctx) {
-        String m = Requests.choiceParam(ctx, "method", List.of("pearson", "spearman"), "pearson");
-        return m.equals("spearman") ? Correlations.Method.SPEARMAN : Correlations.Method.PEARSON;
-    }
-
-    private SeriesRequest.Resolved nonEmpty(SeriesRequest request) {
-        SeriesRequest.Resolved resolved = request.load(factors);
-        if (resolved.series().size() == 0) {
-            throw ApiProblem.badRequest("Factor '" + request.version().name() + "' has no observations"
-                    + (request.from() != null || request.to() != null ? " between the requested dates" : " yet (status " + request.version().status() + ")")
-                    + "; widen 'from'/'to' or wait for its build.");
-        }
-        return resolved;
-    }
-
-    private static Integer lagsParam(Context ctx) {
+    static Integer lagsParam(Context ctx) {
         String text = ctx.queryParam("lags");
         if (text == null || text.isBlank() || text.trim().equals("auto")) {
             return null;

@@ -1,13 +1,29 @@
 package dev.winnow.api;
 
-import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.research.Breadth;
+import dev.winnow.research.ConflictException;
+import dev.winnow.research.FactorDefinitions;
+import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorHoldings;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
+import dev.winnow.research.InvalidRequestException;
+import dev.winnow.research.LoadingsService;
+import dev.winnow.research.SignalPreview;
+import dev.winnow.research.Themes;
+import dev.winnow.research.TrialLibrary;
+import dev.winnow.research.UnknownNameException;
+import dev.winnow.stats.InsufficientDataException;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
-import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorageFaultLog;
+import dev.winnow.store.StorageFaults;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
+import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
 import io.javalin.http.HttpResponseException;
 import org.slf4j.Logger;
@@ -21,9 +37,12 @@ public final class ApiServer {
     private static final Logger LOG = LoggerFactory.getLogger(ApiServer.class);
     static final String PROBLEM_JSON = "application/problem+json";
 
-    /** What the handlers need. */
-    public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors,
-                               LoadingsStore loadings, JobQueue queue, UploadSpool spool) {
+    /** What the handlers need, each wired once by the application. */
+    public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
+                               UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
+                               Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
+                               FactorHoldings holdings) {
     }
 
     private ApiServer() {
@@ -34,10 +53,15 @@ public final class ApiServer {
         TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
-        FactorRoutes factors = new FactorRoutes(d.factors(), d.panels(), d.queue(), d.spool());
+        FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
-        EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.panels());
-        LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.factors(), d.loadings(), d.queue());
+        ChartRoutes charts = new ChartRoutes(d.factors());
+        PageRoutes page = new PageRoutes();
+        EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
+        LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
+        SignalRoutes signals = new SignalRoutes(d.signals());
+        HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -47,7 +71,12 @@ public final class ApiServer {
             config.http.prefer405over404 = true;
 
             config.routes.before(auth::check);
-            config.routes.get("/health", ctx -> Json.respond(ctx, Map.of("status", "ok")));
+            config.routes.get("/health", ctx -> {
+                Health health = d.health().now();
+                Json.respond(ctx, health.serving() ? 200 : 503, health);
+            });
+            config.routes.get("/", page::page);
+            config.routes.get("/ui/{file}", page::asset);
 
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
@@ -58,6 +87,7 @@ public final class ApiServer {
             config.routes.post("/v1/panels/{panel}/uploads", panels::upload);
             config.routes.get("/v1/panels", panels::list);
             config.routes.get("/v1/panels/{panel}", panels::get);
+            config.routes.get("/v1/panels/{panel}/signals", signals::values);
 
             config.routes.put("/v1/factors/{factor}", factors::define);
             config.routes.get("/v1/factors", factors::list);
@@ -66,11 +96,16 @@ public final class ApiServer {
             config.routes.post("/v1/factors/{factor}/uploads", factors::uploadSeries);
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
+            config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
+            config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
+            config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
+            config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
             config.routes.get("/v1/themes", evidence::themes);
@@ -83,25 +118,68 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
-            config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
-            config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
-                    detailOf(e, ctx), java.util.List.of()));
-            config.routes.exception(Exception.class, (e, ctx) -> {
-                LOG.error("unexpected error on {} {}", ctx.method(), ctx.path(), e);
-                problem(ctx, 500, "Internal server error", "The server failed while handling this request; the error was logged. "
-                        + "Nothing was changed by it unless a job id was returned.", java.util.List.of());
-            });
-            config.routes.error(404, ctx -> {
-                if (!isProblem(ctx)) {
-                    problem(ctx, 404, "Not found", "No endpoint " + ctx.method() + " " + ctx.path() + "; see openapi.yaml for the API.", java.util.List.of());
-                }
-            });
-            config.routes.error(405, ctx -> {
-                if (!isProblem(ctx)) {
-                    problem(ctx, 405, "Method not allowed", "Method " + ctx.method() + " is not allowed on " + ctx.path() + ".", java.util.List.of());
-                }
-            });
+            config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
+            config.routes.get("/v1/model-tests", crossSection::modelTests);
+
+            mapErrors(config);
         });
+    }
+
+    /**
+     * The one place where failures become {@code application/problem+json}: the domain's exceptions (unknown name 404,
+     * invalid request 400, conflict 409), {@link ApiProblem} for HTTP-level problems, Javalin's own errors, and 500
+     * for anything unexpected.
+     */
+    static void mapErrors(JavalinConfig config) {
+        config.routes.exception(UnknownNameException.class, (e, ctx) -> problem(ctx, 404, "Not found", e.getMessage(), java.util.List.of()));
+        config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+        config.routes.exception(InsufficientDataException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+        config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
+        config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
+        config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
+                e.getMessage(), messages(e.problems())));
+        config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
+                e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.UploadTooLargeException.class, (e, ctx) -> problem(ctx, 413, "Content too large",
+                e.getMessage(), java.util.List.of()));
+        config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
+                e.getMessage(), java.util.List.of()));
+        config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
+                detailOf(e, ctx), java.util.List.of()));
+        config.routes.exception(Exception.class, (e, ctx) -> {
+            if (StorageFaults.isStorageFault(e)) {
+                StorageFaultLog.note(LOG, ctx.method() + " " + ctx.path(), e);
+                boolean full = StorageFaults.isDiskFull(e);
+                ctx.header("Retry-After", "30");
+                problem(ctx, full ? 507 : 503, full ? "Insufficient storage" : "Service unavailable",
+                        (full ? "The disk holding the store is full" : "The store cannot be used right now")
+                                + "; nothing was changed by this request. Try again once the operator has fixed the "
+                                + "storage (GET /health tells when the store is back).", java.util.List.of());
+                return;
+            }
+            LOG.error("unexpected error on {} {}", ctx.method(), ctx.path(), e);
+            problem(ctx, 500, "Internal server error", "The server failed while handling this request; the error was logged. "
+                    + "Nothing was changed by it unless a job id was returned.", java.util.List.of());
+        });
+        config.routes.error(404, ctx -> {
+            if (!isProblem(ctx)) {
+                problem(ctx, 404, "Not found", "No endpoint " + ctx.method() + " " + ctx.path() + "; see openapi.yaml for the API.", java.util.List.of());
+            }
+        });
+        config.routes.error(405, ctx -> {
+            if (!isProblem(ctx)) {
+                problem(ctx, 405, "Method not allowed", "Method " + ctx.method() + " is not allowed on " + ctx.path() + ".", java.util.List.of());
+            }
+        });
+    }
+
+    /** Problem sentences as the {@code errors} list of a problem body. */
+    private static java.util.List<Map<String, Object>> messages(java.util.List<String> problems) {
+        java.util.List<Map<String, Object>> errors = new java.util.ArrayList<>();
+        for (String p : problems) {
+            errors.add(Map.of("message", p));
+        }
+        return errors;
     }
 
     private static boolean isProblem(Context ctx) {

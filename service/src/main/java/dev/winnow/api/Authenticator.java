@@ -48,7 +48,7 @@ public final class Authenticator {
 
     /** Before-handler: 401 without a known token, 403 when its scope is below what the route needs. */
     public void check(Context ctx) {
-        if (ctx.path().equals("/health") || ctx.method() == HandlerType.OPTIONS) {
+        if (ctx.path().equals("/health") || PageRoutes.isPublic(ctx.path()) || ctx.method() == HandlerType.OPTIONS) {
             return;
         }
         String header = ctx.header("Authorization");
@@ -88,7 +88,7 @@ public final class Authenticator {
         if (method == HandlerType.GET || method == HandlerType.HEAD) {
             return Scope.READ;
         }
-        if (method == HandlerType.POST && path.equals("/v1/exposures")) {
+        if (method == HandlerType.POST && (path.equals("/v1/exposures") || path.equals("/v1/fama-macbeth"))) {
             return Scope.READ;
         }
         return Scope.WRITE;

@@ -1,12 +1,19 @@
 package dev.winnow.api;
 
-import dev.winnow.api.TrialLibrary.Snapshot;
-import dev.winnow.api.TrialLibrary.Trial;
+import dev.winnow.research.Breadth;
+import dev.winnow.research.EvidenceJson;
+import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.Themes;
+import dev.winnow.research.TrialLibrary;
+import dev.winnow.research.TrialLibrary.Snapshot;
+import dev.winnow.research.TrialLibrary.Trial;
+import dev.winnow.stats.Frequency;
+import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
-import dev.winnow.store.PanelStore;
 import io.javalin.http.Context;
 
+import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.LinkedHashMap;
 import java.util.List;
@@ -20,12 +27,12 @@ final class EvidenceRoutes {
     private final Breadth breadth;
     private final Themes themes;
 
-    EvidenceRoutes(FactorStore factors, PanelStore panels) {
+    EvidenceRoutes(FactorStore factors, TrialLibrary library, FactorEvidence evidence, Breadth breadth, Themes themes) {
         this.factors = factors;
-        this.library = new TrialLibrary(factors);
-        this.breadth = new Breadth(panels, factors);
-        this.evidence = new FactorEvidence(factors, breadth);
-        this.themes = new Themes(factors);
+        this.library = library;
+        this.breadth = breadth;
+        this.evidence = evidence;
+        this.themes = themes;
     }
 
     /** {@code risk_free=include} (default: every version is a trial) or {@code exclude} (risk-free rates are not). */
@@ -76,7 +83,37 @@ final class EvidenceRoutes {
         Json.respond(ctx, themes.comparison(library.snapshot(), cut));
     }
 
+    /**
+     * The theme's composite series (see {@link Themes#composite}): from/to, frequency and form as for a factor's
+     * returns; JSON or CSV; an ETag over every member's data version.
+     */
     void themeReturns(Context ctx) {
-        themes.returns(ctx, ctx.pathParam("theme"));
+        String theme = ctx.pathParam("theme");
+        List<FactorVersionRecord> members = themes.members(theme);
+        LocalDate from = Requests.dateParam(ctx, "from");
+        LocalDate to = Requests.dateParam(ctx, "to");
+        Requests.checkRange(from, to);
+        Frequency target = SeriesRequest.frequencyParam(ctx);
+        String form = Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period");
+        boolean csv = Responses.wantsCsv(ctx);
+        StringBuilder key = new StringBuilder("theme:").append(theme);
+        members.forEach(v -> key.append(';').append(v.factorId()).append('.').append(v.version()).append('.').append(v.dataVersion()));
+        if (Responses.notModified(ctx, key.toString(), csv)) {
+            return;
+        }
+        Themes.Composite composite = themes.composite(theme, members, from, to, target, form.equals("cumulative"));
+        ReturnSeries series = composite.series();
+        if (csv) {
+            Responses.csv(ctx, "date,return", series.dates(), series.values());
+            return;
+        }
+        Map<String, Object> out = new LinkedHashMap<>();
+        out.put("theme", theme);
+        out.put("factors", composite.factors());
+        out.put("frequency", composite.frequency().wireName());
+        out.put("form", form);
+        out.put("dates", series.dates());
+        out.put("returns", series.values());
+        Json.respond(ctx, out);
     }
 }

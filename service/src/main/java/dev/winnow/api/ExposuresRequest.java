@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.research.LoadingsSettings;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -47,6 +48,6 @@ record ExposuresRequest(PanelRecord panel, LocalDate date, List<String> securiti
             securities.add(code);
             weights[h] = weight.asDouble();
         }
-        return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), securities, weights, LoadingsSettings.ofBody(body));
+        return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), securities, weights, LoadingsSettingsForms.ofBody(body));
     }
 }

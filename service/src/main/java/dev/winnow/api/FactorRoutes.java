@@ -1,16 +1,16 @@
 package dev.winnow.api;
 
-import dev.winnow.ingest.FactorDefinitions;
-import dev.winnow.ingest.JobKinds;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.JsonText;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.research.ConflictException;
+import dev.winnow.research.FactorDefinitions;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.SeriesSummary;
 import dev.winnow.store.FactorStore.StoredTurnover;
-import dev.winnow.store.PanelStore;
+import dev.winnow.store.JsonText;
 import io.javalin.http.Context;
 
 import java.util.ArrayList;
@@ -25,9 +25,9 @@ final class FactorRoutes {
     private final JobQueue queue;
     private final UploadSpool spool;
 
-    FactorRoutes(FactorStore factors, PanelStore panels, JobQueue queue, UploadSpool spool) {
+    FactorRoutes(FactorStore factors, FactorDefinitions definitions, JobQueue queue, UploadSpool spool) {
         this.factors = factors;
-        this.definitions = new FactorDefinitions(factors, panels, queue);
+        this.definitions = definitions;
         this.queue = queue;
         this.spool = spool;
     }
@@ -58,7 +58,7 @@ final class FactorRoutes {
                 .orElseThrow(() -> ApiProblem.notFound("No factor '" + name + "'; define it first with PUT /v1/factors/" + name
                         + " {\"method\":\"external\"}."));
         if (!v.method().equals("external")) {
-            throw new ApiProblem(409, "Conflict", "Factor '" + name + "' is built from panel data (method " + v.method()
+            throw new ConflictException("Factor '" + name + "' is built from panel data (method " + v.method()
                     + "); only method external takes uploaded returns.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);

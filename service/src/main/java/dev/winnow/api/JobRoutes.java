@@ -1,8 +1,8 @@
 package dev.winnow.api;
 
-import dev.winnow.ingest.JsonText;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
 import io.javalin.http.Context;
 
 import java.util.LinkedHashMap;

@@ -1,8 +1,8 @@
 package dev.winnow.api;
 
-import dev.winnow.api.LoadingsService.Characteristic;
-import dev.winnow.api.LoadingsService.Table;
 import dev.winnow.construct.LoadingsTable;
+import dev.winnow.research.LoadingsService.Characteristic;
+import dev.winnow.research.LoadingsService.Table;
 
 import java.util.List;
 

@@ -3,13 +3,13 @@ package dev.winnow.api;
 import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.core.StreamWriteFeature;
-import dev.winnow.api.LoadingsService.Characteristic;
-import dev.winnow.api.LoadingsService.Exposures;
-import dev.winnow.api.LoadingsService.History;
-import dev.winnow.api.LoadingsService.Table;
 import dev.winnow.construct.LoadingsSpec;
 import dev.winnow.construct.LoadingsTable;
 import dev.winnow.construct.SecurityLoadingsHistory;
+import dev.winnow.research.LoadingsService.Characteristic;
+import dev.winnow.research.LoadingsService.Exposures;
+import dev.winnow.research.LoadingsService.History;
+import dev.winnow.research.LoadingsService.Table;
 import dev.winnow.store.LoadingsStore.LoadingsConfig;
 import dev.winnow.store.PanelStore.PanelRecord;
 

@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.research.LoadingsSettings;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -29,7 +30,7 @@ record LoadingsRequest(PanelRecord panel, LocalDate date, boolean csv, LoadingsS
             return new LoadingsRequest(panel, asOf, csv, null, columns(ctx, panel, panels));
         }
         Requests.rejectParams(ctx, "regression loadings", "columns");
-        return new LoadingsRequest(panel, asOf, csv, LoadingsSettings.ofQuery(ctx), null);
+        return new LoadingsRequest(panel, asOf, csv, LoadingsSettingsForms.ofQuery(ctx), null);
     }
 
     boolean characteristic() {

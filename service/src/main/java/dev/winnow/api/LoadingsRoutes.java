@@ -1,10 +1,9 @@
 package dev.winnow.api;
 
-import dev.winnow.api.LoadingsService.Characteristic;
-import dev.winnow.api.LoadingsService.Table;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.store.FactorStore;
-import dev.winnow.store.LoadingsStore;
+import dev.winnow.research.LoadingsService;
+import dev.winnow.research.LoadingsService.Characteristic;
+import dev.winnow.research.LoadingsService.Table;
+import dev.winnow.research.LoadingsSettings;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -20,16 +19,16 @@ public final class LoadingsRoutes {
     private final PanelStore panels;
     private final LoadingsService service;
 
-    public LoadingsRoutes(PanelStore panels, FactorStore factors, LoadingsStore loadings, JobQueue queue) {
+    public LoadingsRoutes(PanelStore panels, LoadingsService service) {
         this.panels = panels;
-        this.service = new LoadingsService(panels, factors, loadings, queue);
+        this.service = service;
     }
 
     /** {@code GET /v1/loadings}: regression loadings (default) or, with kind=characteristic, characteristic exposures. */
     public void get(Context ctx) {
         LoadingsRequest request = LoadingsRequest.of(ctx, panels);
         if (request.characteristic()) {
-            Characteristic answer = service.characteristic(request);
+            Characteristic answer = service.characteristic(request.panel(), request.date(), request.columns());
             if (request.csv()) {
                 Responses.csv(ctx, LoadingsCsv.characteristic(answer));
             } else {
@@ -37,7 +36,7 @@ public final class LoadingsRoutes {
             }
             return;
         }
-        Table answer = service.table(request, source -> ctx.header(SOURCE_HEADER, source));
+        Table answer = service.table(request.panel(), request.date(), request.regression(), source -> ctx.header(SOURCE_HEADER, source));
         if (request.csv()) {
             Responses.csv(ctx, LoadingsCsv.table(answer));
         } else {
@@ -48,19 +47,21 @@ public final class LoadingsRoutes {
     /** {@code GET /v1/loadings/{security}}: one security's loadings at every grid date in range where it has a row. */
     public void securityHistory(Context ctx) {
         SecurityHistoryRequest request = SecurityHistoryRequest.of(ctx, panels);
-        Json.respond(ctx, LoadingsJson.history(service.history(request)));
+        Json.respond(ctx, LoadingsJson.history(service.history(request.panel(), request.security(), request.from(), request.to(),
+                request.regression())));
     }
 
     /** {@code POST /v1/exposures}: a portfolio's exposures to the factors from its holdings' loadings. */
     public void exposures(Context ctx) {
         ExposuresRequest request = ExposuresRequest.of(ctx, panels);
-        Json.respond(ctx, LoadingsJson.exposures(service.exposures(request, source -> ctx.header(SOURCE_HEADER, source))));
+        Json.respond(ctx, LoadingsJson.exposures(service.exposures(request.panel(), request.date(), request.securities(),
+                request.weights(), request.regression(), source -> ctx.header(SOURCE_HEADER, source))));
     }
 
     /** {@code PUT /v1/panels/{panel}/loadings-config}: sets the panel's default factor set (write scope). */
     public void putConfig(Context ctx) {
         PanelRecord panel = PanelLookup.visible(panels, ctx.pathParam("panel"));
-        LoadingsSettings settings = LoadingsSettings.ofConfig(Json.readObject(ctx));
+        LoadingsSettings settings = LoadingsSettingsForms.ofConfig(Json.readObject(ctx));
         Json.respond(ctx, LoadingsJson.config(panel, service.saveConfig(panel, settings)));
     }
 

@@ -1,8 +1,8 @@
 package dev.winnow.api;
 
-import dev.winnow.ingest.JobKinds;
-import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobQueue;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;

@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.research.LoadingsSettings;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -15,6 +16,6 @@ record SecurityHistoryRequest(PanelRecord panel, String security, LocalDate from
         LocalDate from = Requests.dateParam(ctx, "from");
         LocalDate to = Requests.dateParam(ctx, "to");
         Requests.checkRange(from, to);
-        return new SecurityHistoryRequest(panel, security, from, to, LoadingsSettings.ofQuery(ctx));
+        return new SecurityHistoryRequest(panel, security, from, to, LoadingsSettingsForms.ofQuery(ctx));
     }
 }

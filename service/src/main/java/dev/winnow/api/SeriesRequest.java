@@ -58,6 +58,17 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
         return new Resolved(FrequencyConversion.compound(ranged, targetFrequency), targetFrequency);
     }
 
+    /** As {@link #load}, answering 400 when nothing is left to compute on. */
+    Resolved loadNonEmpty(FactorStore factors) {
+        Resolved resolved = load(factors);
+        if (resolved.series().size() == 0) {
+            throw ApiProblem.badRequest("Factor '" + version.name() + "' has no observations"
+                    + (from != null || to != null ? " between the requested dates" : " yet (status " + version.status() + ")")
+                    + "; widen 'from'/'to' or wait for its build.");
+        }
+        return resolved;
+    }
+
     record Resolved(ReturnSeries series, Frequency frequency) {
     }
 }

@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.research.ConflictException;
 import dev.winnow.store.TokenStore;
 import io.javalin.http.Context;
 
@@ -36,7 +37,7 @@ final class TokenRoutes {
         }
         String token = Authenticator.newToken();
         if (!tokens.insert(name, scope.wireName(), Authenticator.hash(token))) {
-            throw new ApiProblem(409, "Conflict", "A token named '" + name + "' exists; revoke it first or choose another name.");
+            throw new ConflictException("A token named '" + name + "' exists; revoke it first or choose another name.");
         }
         authenticator.refresh();
         Map<String, Object> out = new LinkedHashMap<>();

@@ -4,7 +4,6 @@ import dev.winnow.ingest.UploadSpool;
 import io.javalin.http.Context;
 
 import java.io.IOException;
-import java.io.UncheckedIOException;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
@@ -43,9 +42,9 @@ final class Uploads {
         String mode = Requests.choiceParam(ctx, "mode", List.of("append", "revise"), "append");
         UploadSpool.Spooled spooled;
         try {
-            spooled = spool.write(ctx.bodyInputStream());
+            spooled = spool.write(ctx.bodyInputStream(), ctx.req().getContentLengthLong(), gzip);
         } catch (IOException e) {
-            throw new UncheckedIOException("could not spool the upload", e);
+            throw ApiProblem.badRequest("The upload body could not be read to its end (the connection broke off); nothing was stored. Send it again.");
         }
         if (spooled.size() == 0) {
             spool.delete(spooled.relativePath());

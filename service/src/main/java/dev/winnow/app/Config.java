@@ -1,5 +1,8 @@
 package dev.winnow.app;
 
+import dev.winnow.store.H2Url;
+import dev.winnow.store.Limits;
+
 import java.nio.file.Path;
 import java.util.Map;
 
@@ -12,17 +15,23 @@ import java.util.Map;
  * @param dbUrl      WINNOW_DB_URL (default an H2 file under the data dir)
  * @param adminToken WINNOW_ADMIN_TOKEN: bootstrap admin token, or null
  * @param dbPool     WINNOW_DB_POOL (default 16): the most connections the pool opens to the store
+ * @param limits     WINNOW_MAX_UPLOAD_BYTES, WINNOW_MIN_FREE_BYTES and the fixed limits (see {@link Limits})
  */
-public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken, int dbPool) {
+public record Config(int port, String bind, Path dataDir, String dbUrl, String adminToken, int dbPool, Limits limits) {
 
     /** A configuration with the defaults for everything not named. */
     public Config(int port, String bind, Path dataDir, String dbUrl, String adminToken) {
-        this(port, bind, dataDir, dbUrl, adminToken, dev.winnow.store.Database.DEFAULT_POOL_SIZE);
+        this(port, bind, dataDir, dbUrl, adminToken, dev.winnow.store.Database.DEFAULT_POOL_SIZE, Limits.DEFAULTS);
     }
 
     /** The same configuration on another store. */
     public Config withDbUrl(String url) {
-        return new Config(port, bind, dataDir, url, adminToken, dbPool);
+        return new Config(port, bind, dataDir, url, adminToken, dbPool, limits);
+    }
+
+    /** The same configuration with other limits. */
+    public Config withLimits(Limits newLimits) {
+        return new Config(port, bind, dataDir, dbUrl, adminToken, dbPool, newLimits);
     }
 
     public static Config fromEnvironment(Map<String, String> env) {
@@ -32,10 +41,19 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
         if (dbUrl == null || dbUrl.isBlank()) {
             dbUrl = defaultH2Url(dataDir);
         }
+        dbUrl = H2Url.durable(dbUrl.trim());
         String token = env.get("WINNOW_ADMIN_TOKEN");
         int pool = wholeNumber(env, "WINNOW_DB_POOL", dev.winnow.store.Database.DEFAULT_POOL_SIZE, 1, 1000);
+        Limits limits = new Limits(
+                bytes(env, "WINNOW_MAX_UPLOAD_BYTES", Limits.DEFAULTS.maxUploadBytes()),
+                bytes(env, "WINNOW_MIN_FREE_BYTES", Limits.DEFAULTS.minFreeBytes()));
         return new Config(parsedPort, env.getOrDefault("WINNOW_BIND", "127.0.0.1"), dataDir, dbUrl,
-                token == null || token.isBlank() ? null : token, pool);
+                token == null || token.isBlank() ? null : token, pool, limits);
+    }
+
+    private static long bytes(Map<String, String> env, String variable, long defaultValue) {
+        String text = env.get(variable);
+        return text == null || text.isBlank() ? defaultValue : Limits.parseBytes(variable, text);
     }
 
     /** A whole-number setting from {@code min} to {@code max}, or its default when unset. */
@@ -58,7 +76,8 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
 
     /**
      * H2 file store. WRITE_DELAY=0 writes every commit to the file at once (H2 otherwise flushes up to 500 ms later,
-     * so a killed process could lose an acknowledged upload); FILE_LOCK=FS lets a second process fail clearly.
+     * so a killed process could lose an acknowledged upload; {@link H2Url#durable} adds it to operators' URLs too);
+     * FILE_LOCK=FS lets a second process fail clearly.
      */
     public static String defaultH2Url(Path dataDir) {
         return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0";

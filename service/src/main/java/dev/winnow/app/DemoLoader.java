@@ -2,10 +2,10 @@ package dev.winnow.app;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
-import dev.winnow.ingest.FactorDefinitions;
-import dev.winnow.ingest.JobKinds;
-import dev.winnow.ingest.JobQueue;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.research.FactorDefinitions;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
@@ -33,13 +33,13 @@ final class DemoLoader {
     private final UploadSpool spool;
     private final FactorDefinitions definitions;
 
-    DemoLoader(PanelStore panels, FactorStore factors, JobStore jobs, JobQueue queue, UploadSpool spool) {
+    DemoLoader(PanelStore panels, FactorStore factors, JobStore jobs, JobQueue queue, UploadSpool spool, FactorDefinitions definitions) {
         this.panels = panels;
         this.factors = factors;
         this.jobs = jobs;
         this.queue = queue;
         this.spool = spool;
-        this.definitions = new FactorDefinitions(factors, panels, queue);
+        this.definitions = definitions;
     }
 
     boolean storeIsEmpty() {

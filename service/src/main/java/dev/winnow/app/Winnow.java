@@ -2,15 +2,29 @@ package dev.winnow.app;
 
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
-import dev.winnow.ingest.JobHandler;
-import dev.winnow.ingest.JobKinds;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.JsonText;
-import dev.winnow.ingest.JobWorker;
+import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobHandler;
+import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.jobs.JobWorker;
+import dev.winnow.research.Breadth;
+import dev.winnow.research.FactorBuilds;
+import dev.winnow.research.FactorDefinitions;
+import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.ModelTests;
+import dev.winnow.research.SeriesNames;
+import dev.winnow.research.LoadingsRefresh;
+import dev.winnow.research.LoadingsService;
+import dev.winnow.research.FactorHoldings;
+import dev.winnow.research.SignalPreview;
+import dev.winnow.research.Themes;
+import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobStore;
+import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.TokenStore;
@@ -44,7 +58,7 @@ public final class Winnow implements AutoCloseable {
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi);
         LoadingsStore loadings = new LoadingsStore(jdbi);
-        UploadSpool spool = new UploadSpool(config.dataDir());
+        UploadSpool spool = new UploadSpool(config.dataDir(), config.limits());
 
         int discarded = panels.discardAllStaging();
         int requeued = jobs.requeueInterrupted();
@@ -62,10 +76,37 @@ public final class Winnow implements AutoCloseable {
         if (rebuilds > 0) {
             LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
         }
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, loadings, spool);
+        FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
+        FactorBuilds builds = new FactorBuilds(panels, factors);
+        LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
         this.worker = new JobWorker(jobs, handlers);
-        this.demo = new DemoLoader(panels, factors, jobs, queue, spool);
-        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, loadings, queue, spool), config.bind(), config.port());
+        this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
+        Breadth breadth = new Breadth(panels, factors);
+        this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
+                new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
+                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
+                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port());
+    }
+
+    /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
+    private Health health(JobStore jobs, UploadSpool spool) {
+        JobStore.QueueCounts queue = null;
+        String store;
+        try {
+            queue = jobs.queueCounts();
+            store = spool.hasMinimumFreeSpace() ? "ok" : "low_space";
+        } catch (RuntimeException e) {
+            store = "unavailable";
+        }
+        JobWorker.State state = worker.state();
+        if (state == JobWorker.State.WAITING_FOR_STORE) {
+            store = "unavailable";
+        }
+        boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
+        String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
+        return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
     }
 
     public static Winnow start(Config config) throws IOException {
@@ -102,10 +143,7 @@ public final class Winnow implements AutoCloseable {
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {
             if (v.status().equals("building") && !v.method().equals("external") && !queued.contains(v.name() + "#" + v.version())) {
-                Map<String, Object> params = new java.util.LinkedHashMap<>();
-                params.put("factor", v.name());
-                params.put("version", v.version());
-                queue.enqueue(JobKinds.FACTOR_BUILD, params);
+                queue.queueFactorBuild(v.name(), v.version());
                 count++;
             }
         }

@@ -21,13 +21,12 @@ final class BucketSortRule implements PortfolioRule {
     }
 
     @Override
-    public Holding[] form(CrossSection rows) {
-        int[] eligible = Eligibility.eligibleRows(def, rows);
+    public Holding[] form(CrossSection rows, double[] signal) {
+        int[] eligible = Eligibility.eligibleRows(def, rows, signal);
         int[] breakpointRows = Eligibility.breakpointRows(def, rows, eligible);
         if (breakpointRows.length == 0) {
             return new Holding[] {Holding.empty(), Holding.empty()};
         }
-        double[] signal = rows.numberColumn(def.signal());
         double[] sorted = Eligibility.sortedValues(signal, breakpointRows);
         double[] cuts = new double[buckets - 1];
         for (int j = 1; j < buckets; j++) {

@@ -3,6 +3,7 @@ package dev.winnow.construct;
 import dev.winnow.stats.ReturnSeries;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Map;
 
 /**
  * Runs {@link FactorEngine} in segments of a fixed number of grid dates and keeps the engine state at the end of each
@@ -39,6 +40,13 @@ public final class CheckpointedBuild {
      */
     public static Result run(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume,
                              int observationsBefore, int missingBefore, int segmentDates) {
+        return run(def, panel, riskFree, Map.of(), resume, observationsBefore, missingBefore, segmentDates);
+    }
+
+    /** As above, with the return series of the factors the signal recipe reads. */
+    public static Result run(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                             Map<String, ReturnSeries> signalFactors, EngineState resume,
+                             int observationsBefore, int missingBefore, int segmentDates) {
         if (segmentDates < 1) {
             throw new IllegalArgumentException("checkpoint segments need at least 1 grid date, got " + segmentDates);
         }
@@ -51,7 +59,7 @@ public final class CheckpointedBuild {
         int missing = 0;
         BuildResult last = null;
         for (int end = (done / segmentDates + 1) * segmentDates; end <= total; end += segmentDates) {
-            last = FactorEngine.build(def, new PanelPrefix(panel, end), riskFree, state);
+            last = FactorEngine.build(def, new PanelPrefix(panel, end), riskFree, signalFactors, state);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
             missing += last.periodsWithoutReturn();
@@ -59,7 +67,7 @@ public final class CheckpointedBuild {
             checkpoints.add(new Checkpoint(state, observationsBefore + observations.size(), missingBefore + missing));
         }
         if (last == null || state.processedDates() < total) {
-            last = FactorEngine.build(def, panel, riskFree, state);
+            last = FactorEngine.build(def, panel, riskFree, signalFactors, state);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
             missing += last.periodsWithoutReturn();

@@ -28,8 +28,8 @@ import java.util.Set;
 public final class DefinitionJson {
     private static final ObjectMapper MAPPER = new ObjectMapper();
     private static final Set<String> FIELDS = Set.of("panel", "method", "signal", "direction", "buckets", "weighting", "lag",
-            "rebalance", "rebalance_month", "output", "risk_free", "universe", "breakpoints", "cost_bps", "theme", "rationale",
-            "found_on");
+            "rebalance", "rebalance_month", "output", "risk_free", "universe", "breakpoints", "within", "control", "cost_bps", "theme",
+            "rationale", "found_on");
 
     private DefinitionJson() {
     }
@@ -54,11 +54,11 @@ public final class DefinitionJson {
         }
         Method method = enumField(node, "method", Method.class, problems);
         if (method == null && !node.hasNonNull("method")) {
-            problems.add("method is required: one of sort, size_sort, market, external");
+            problems.add("method is required: one of sort, size_sort, market, rank_weighted, external");
         }
         FactorDefinition.Builder b = FactorDefinition.builder(method)
                 .panel(text(node, "panel", problems))
-                .signal(text(node, "signal", problems))
+                .signal(node.hasNonNull("signal") ? RecipeJson.read(node.get("signal"), "signal", problems) : null)
                 .direction(enumField(node, "direction", Direction.class, problems))
                 .buckets(integer(node, "buckets", problems))
                 .weighting(enumField(node, "weighting", Weighting.class, problems))
@@ -69,6 +69,8 @@ public final class DefinitionJson {
                 .riskFree(text(node, "risk_free", problems))
                 .universe(universe(node.get("universe"), problems))
                 .breakpoints(breakpoints(node.get("breakpoints"), problems))
+                .within(text(node, "within", problems))
+                .control(control(node.get("control"), problems))
                 .costBps(number(node, "cost_bps", problems))
                 .theme(text(node, "theme", problems))
                 .rationale(text(node, "rationale", problems))
@@ -92,7 +94,9 @@ public final class DefinitionJson {
         ObjectNode o = MAPPER.createObjectNode();
         putText(o, "method", wire(d.method()));
         putText(o, "panel", d.panel());
-        putText(o, "signal", d.signal());
+        if (d.signal() != null) {
+            o.set("signal", signalJson(d.signal()));
+        }
         putText(o, "direction", wire(d.direction()));
         putInt(o, "buckets", d.buckets());
         putText(o, "weighting", wire(d.weighting()));
@@ -109,6 +113,12 @@ public final class DefinitionJson {
             bp.put("column", d.breakpoints().column());
             bp.put("equals", d.breakpoints().value());
         }
+        putText(o, "within", d.within());
+        if (d.control() != null) {
+            ObjectNode c = o.putObject("control");
+            c.put("buckets", d.control().buckets());
+            c.set("signal", signalJson(d.control().signal()));
+        }
         if (d.costBps() != null) {
             o.put("cost_bps", d.costBps());
         }
@@ -120,6 +130,28 @@ public final class DefinitionJson {
 
     public static String toCanonicalString(FactorDefinition d) {
         return toJson(d).toString();
+    }
+
+    /** A plain column stays a string (as stored before recipes); a recipe is written in its canonical form. */
+    private static JsonNode signalJson(Recipe signal) {
+        return signal.columnName() != null ? MAPPER.getNodeFactory().textNode(signal.columnName()) : RecipeJson.toJson(signal);
+    }
+
+    private static FactorDefinition.Control control(JsonNode node, List<String> problems) {
+        if (node == null || node.isNull()) {
+            return null;
+        }
+        if (!node.isObject() || !node.has("signal") || !node.has("buckets") || node.size() != 2) {
+            problems.add("control must be {\"signal\": <column or recipe>, \"buckets\": 2..10}");
+            return null;
+        }
+        Recipe signal = RecipeJson.read(node.get("signal"), "control.signal", problems);
+        JsonNode b = node.get("buckets");
+        if (!b.isIntegralNumber() || !b.canConvertToInt()) {
+            problems.add("control.buckets must be a whole number from 2 to 10, got " + b);
+            return null;
+        }
+        return signal == null ? null : new FactorDefinition.Control(signal, b.asInt());
     }
 
     private static ObjectNode universeJson(Universe u) {
@@ -135,6 +167,14 @@ public final class DefinitionJson {
             });
         }
         return o;
+    }
+
+    /**
+     * A {@code universe} object as definitions spell it (min_market_cap, labels), for the studies that take one; null
+     * when the node is absent. Problems are added to {@code problems}.
+     */
+    public static Universe readUniverse(JsonNode node, List<String> problems) {
+        return universe(node, problems);
     }
 
     private static Universe universe(JsonNode node, List<String> problems) {

@@ -27,7 +27,7 @@ public final class DefinitionValidator {
     public static List<String> validate(FactorDefinition def, PanelSchema schema) {
         List<String> problems = new ArrayList<>();
         if (def.method() == null) {
-            problems.add("method is required: one of sort, size_sort, market, external");
+            problems.add("method is required: one of sort, size_sort, market, rank_weighted, external");
             return problems;
         }
         if (def.method() == Method.EXTERNAL) {
@@ -58,6 +58,7 @@ public final class DefinitionValidator {
             {"buckets", def.buckets()}, {"weighting", def.weighting()}, {"lag", def.lag()},
             {"rebalance", def.rebalance()}, {"rebalance_month", def.rebalanceMonth()}, {"output", def.output()},
             {"risk_free", def.riskFree()}, {"universe", def.universe()}, {"breakpoints", def.breakpoints()},
+            {"within", def.within()}, {"control", def.control()},
             {"cost_bps", def.costBps()},
         };
         for (Object[] field : fields) {
@@ -73,11 +74,15 @@ public final class DefinitionValidator {
         if (isBlank(def.panel())) {
             problems.add("panel is required for method " + name);
         }
-        boolean sorts = method == Method.SORT || method == Method.SIZE_SORT;
-        if (sorts && isBlank(def.signal())) {
+        boolean sorts = method == Method.SORT || method == Method.SIZE_SORT || method == Method.RANK_WEIGHTED;
+        if (sorts && def.signal() == null) {
             problems.add("signal is required for method " + name + ": name a numeric column of the panel");
         }
-        notFor(!sorts, def.signal(), "signal", "applies to methods sort and size_sort only", problems);
+        notFor(!sorts, def.signal(), "signal", "applies to methods sort, size_sort and rank_weighted only", problems);
+        boolean rankWeighted = method == Method.RANK_WEIGHTED;
+        notFor(rankWeighted, def.weighting(), "weighting", "does not apply to method rank_weighted (weights follow ranks)", problems);
+        notFor(rankWeighted, def.breakpoints(), "breakpoints", "does not apply to method rank_weighted (every eligible security is held)", problems);
+        checkSortOptions(def, problems);
         notFor(method == Method.MARKET, def.direction(), "direction", "does not apply to method market", problems);
         notFor(method == Method.SIZE_SORT && def.output() == Output.SIZE, def.direction(), "direction",
                 "does not apply to output size (it is always small minus big)", problems);
@@ -95,7 +100,7 @@ public final class DefinitionValidator {
         if (def.riskFree() != null && isBlank(def.riskFree())) {
             problems.add("risk_free must name a factor");
         }
-        notFor(!sorts, def.breakpoints(), "breakpoints", "applies to methods sort and size_sort only", problems);
+        notFor(!sorts || rankWeighted, def.breakpoints(), "breakpoints", "applies to methods sort and size_sort only", problems);
         if (def.breakpoints() != null) {
             checkLabelEquals("breakpoints", def.breakpoints(), problems);
         }
@@ -103,6 +108,33 @@ public final class DefinitionValidator {
             problems.add("cost_bps must be a finite number >= 0, got " + def.costBps());
         }
         checkUniverse(def.effectiveUniverse(), problems);
+    }
+
+    /** within and control: sort only, and they exclude each other and breakpoints. */
+    private static void checkSortOptions(FactorDefinition def, List<String> problems) {
+        boolean sort = def.method() == Method.SORT;
+        notFor(!sort, def.within(), "within", "applies to method sort only", problems);
+        notFor(!sort, def.control(), "control", "applies to method sort only", problems);
+        Object[][] exclusive = {{"within", def.within()}, {"control", def.control()}, {"breakpoints", def.breakpoints()}};
+        for (int a = 0; a < exclusive.length; a++) {
+            for (int b = a + 1; b < exclusive.length; b++) {
+                if (exclusive[a][1] != null && exclusive[b][1] != null) {
+                    problems.add("'" + exclusive[a][0] + "' and '" + exclusive[b][0] + "' exclude one another; keep one");
+                }
+            }
+        }
+        if (def.within() != null && def.within().isBlank()) {
+            problems.add("within must name a label column");
+        }
+        FactorDefinition.Control control = def.control();
+        if (control != null) {
+            if (control.buckets() < 2 || control.buckets() > 10) {
+                problems.add("control.buckets must be between 2 and 10, got " + control.buckets());
+            }
+            if (control.signal() == null) {
+                problems.add("control.signal is required: a numeric column or a recipe");
+            }
+        }
     }
 
     private static void checkRebalance(FactorDefinition def, List<String> problems) {
@@ -146,9 +178,14 @@ public final class DefinitionValidator {
 
     private static void checkColumns(FactorDefinition def, PanelSchema schema, List<String> problems) {
         String panel = "panel '" + def.panel() + "'";
-        if (def.signal() != null && !def.signal().isBlank() && !schema.isNumeric(def.signal())) {
-            problems.add("signal '" + def.signal() + "' is not a numeric column of " + panel
-                    + "; numeric columns are: " + String.join(", ", schema.numericColumns()));
+        if (def.signal() != null) {
+            RecipeJson.check(def.signal(), schema, def.panel(), "signal", problems);
+        }
+        if (def.control() != null && def.control().signal() != null) {
+            RecipeJson.check(def.control().signal(), schema, def.panel(), "control.signal", problems);
+        }
+        if (def.within() != null) {
+            requireLabel("within column", def.within(), schema, panel, problems);
         }
         String capUse = marketCapUse(def);
         if (capUse != null && !schema.hasMarketCap()) {

@@ -8,20 +8,38 @@ import java.util.Map;
 
 /**
  * Which rows of the formation cross-section may enter the portfolios. The method's own rule first (sort: finite
- * signal, plus market_cap finite and positive when cap-weighted; size_sort: both; market: positive cap), then the
+ * signal, plus market_cap finite and positive when cap-weighted, plus a finite control signal in a double sort;
+ * size_sort: both; market: positive cap; rank_weighted: finite signal), then the
  * {@link Universe} restrictions in their documented order.
  */
 final class Eligibility {
     private Eligibility() {
     }
 
-    /** Eligible row indices of {@code xs}, increasing. */
-    static int[] eligibleRows(FactorDefinition def, CrossSection xs) {
+    /** Eligible row indices of {@code xs}, increasing; {@code signal} aligned with its rows (null: no signal needed). */
+    static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal) {
+        return eligibleRows(def, xs, signal, null);
+    }
+
+    /** The same, also requiring a finite {@code control} value (a dependent double sort's control signal) when given. */
+    static int[] eligibleRows(FactorDefinition def, CrossSection xs, double[] signal, double[] control) {
+        boolean needsCap = def.method() == Method.SIZE_SORT || def.method() == Method.MARKET
+                || (def.method() == Method.SORT && def.effectiveWeighting() == Weighting.CAP);
+        return rows(def.effectiveUniverse(), xs, signal, control, needsCap);
+    }
+
+    /**
+     * Row indices of {@code xs}, increasing, with a finite {@code signal} (unless null), a finite positive market_cap
+     * when {@code needsCap}, that pass the universe's restrictions.
+     */
+    static int[] rows(Universe universe, CrossSection xs, double[] signal, boolean needsCap) {
+        return rows(universe, xs, signal, null, needsCap);
+    }
+
+    /** The same, also requiring a finite {@code control} value when given. */
+    static int[] rows(Universe universe, CrossSection xs, double[] signal, double[] control, boolean needsCap) {
         int n = xs.size();
         double[] caps = xs.marketCaps();
-        double[] signal = def.method() == Method.MARKET ? null : xs.numberColumn(def.signal());
-        boolean needsCap = def.method() != Method.SORT || def.effectiveWeighting() == Weighting.CAP;
-        Universe universe = def.effectiveUniverse();
         Double minCap = universe.minMarketCap();
         String[][] filterLabels = new String[universe.labelFilters().size()][];
         LabelFilter[] filters = new LabelFilter[filterLabels.length];
@@ -36,7 +54,8 @@ final class Eligibility {
         int m = 0;
         rows:
         for (int i = 0; i < n; i++) {
-            if ((signal != null && !Double.isFinite(signal[i])) || (needsCap && !hasPositiveCap(caps[i]))) {
+            if ((signal != null && !Double.isFinite(signal[i])) || (control != null && !Double.isFinite(control[i]))
+                    || (needsCap && !hasPositiveCap(caps[i]))) {
                 continue;
             }
             if (minCap != null && !(Double.isFinite(caps[i]) && caps[i] >= minCap)) {

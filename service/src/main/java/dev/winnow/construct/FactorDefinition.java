@@ -10,7 +10,7 @@ import java.util.StringJoiner;
  *
  * @param method          how the series is obtained; EXTERNAL series are uploaded, not built
  * @param panel           panel name (not for EXTERNAL)
- * @param signal          numeric column to sort on (SORT and SIZE_SORT)
+ * @param signal          what to sort on: a numeric column or a {@link Recipe} (SORT and SIZE_SORT)
  * @param direction       which end is long; default HIGH_MINUS_LOW
  * @param buckets         number of sort buckets, 2..20; default 5 (SORT only)
  * @param weighting       weights inside a portfolio; default EQUAL for SORT, CAP otherwise
@@ -21,6 +21,8 @@ import java.util.StringJoiner;
  * @param riskFree        name of the factor subtracted from the market return (MARKET only)
  * @param universe        eligibility restrictions; default none
  * @param breakpoints     compute breakpoints on the eligible securities whose label matches (SORT, SIZE_SORT)
+ * @param within          label column inside whose groups a SORT computes its breakpoints
+ * @param control         the control signal and bucket count of a dependent double SORT
  * @param costBps         one-way trading cost in basis points charged on turnover; default 0
  * @param theme           free text
  * @param rationale       free text
@@ -29,7 +31,7 @@ import java.util.StringJoiner;
 public record FactorDefinition(
         Method method,
         String panel,
-        String signal,
+        Recipe signal,
         Direction direction,
         Integer buckets,
         Weighting weighting,
@@ -40,6 +42,8 @@ public record FactorDefinition(
         String riskFree,
         Universe universe,
         LabelEquals breakpoints,
+        String within,
+        Control control,
         Double costBps,
         String theme,
         String rationale,
@@ -49,7 +53,12 @@ public record FactorDefinition(
         SORT,
         SIZE_SORT,
         MARKET,
+        RANK_WEIGHTED,
         EXTERNAL
+    }
+
+    /** A dependent double sort's first sort: on {@code signal} into {@code buckets} (2..10) buckets. */
+    public record Control(Recipe signal, int buckets) {
     }
 
     public enum Direction {
@@ -88,7 +97,7 @@ public record FactorDefinition(
         if (weighting != null) {
             return weighting;
         }
-        return method == Method.SORT ? Weighting.EQUAL : Weighting.CAP;
+        return method == Method.SORT || method == Method.RANK_WEIGHTED ? Weighting.EQUAL : Weighting.CAP;
     }
 
     public int effectiveLag() {
@@ -117,7 +126,7 @@ public record FactorDefinition(
      */
     public String constructionKey() {
         StringJoiner key = new StringJoiner(";");
-        key.add("method=" + method).add("panel=" + panel).add("signal=" + signal)
+        key.add("method=" + method).add("panel=" + panel).add("signal=" + signalKey())
                 .add("direction=" + effectiveDirection()).add("buckets=" + effectiveBuckets())
                 .add("weighting=" + effectiveWeighting()).add("lag=" + effectiveLag())
                 .add("rebalance=" + effectiveRebalance()).add("rebalance_month=" + rebalanceMonth)
@@ -129,18 +138,31 @@ public record FactorDefinition(
             key.add("filter=" + f.getKey() + ":" + f.getValue().mode() + ":" + String.join("|", f.getValue().values()));
         }
         key.add("size_half=" + u.sizeHalf()).add("segment=" + u.segment()).add("breakpoints=" + breakpoints);
+        // added with signal recipes; left out when unset so that earlier versions keep their keys
+        if (within != null) {
+            key.add("within=" + within);
+        }
+        if (control != null) {
+            key.add("control=" + (control.signal() == null ? "null" : RecipeJson.canonical(control.signal())) + ":" + control.buckets());
+        }
         return key.toString();
     }
 
     /**
-     * The panel columns besides return and market_cap that building this definition reads: the signal, the label
-     * columns of universe filters and segment, and the breakpoint subset's column. A panel source may leave every
-     * other column out.
+     * The panel columns besides return and market_cap that building this definition reads: those of the signal and
+     * control recipes, the {@code within} column, the label columns of universe filters and segment, and the
+     * breakpoint subset's column. A panel source may leave every other column out.
      */
     public java.util.Set<String> columnsRead() {
         java.util.Set<String> columns = new java.util.TreeSet<>();
-        if (signal != null) {
-            columns.add(signal);
+        for (Recipe recipe : new Recipe[] {signal, control == null ? null : control.signal()}) {
+            if (recipe != null) {
+                columns.addAll(recipe.numberColumns());
+                columns.addAll(recipe.labelColumns());
+            }
+        }
+        if (within != null) {
+            columns.add(within);
         }
         Universe u = effectiveUniverse();
         columns.addAll(u.labelFilters().keySet());
@@ -153,10 +175,43 @@ public record FactorDefinition(
         return columns;
     }
 
+    /**
+     * The signal's part of the construction key: the column name for a plain column (so a column spelled as a string
+     * or as {@code {"column": ...}} keys alike, as versions built before recipes did), else the canonical recipe.
+     */
+    private String signalKey() {
+        if (signal == null) {
+            return "null";
+        }
+        return signal.columnName() != null ? signal.columnName() : RecipeJson.canonical(signal);
+    }
+
+    /** The factors whose returns the build reads: the risk_free rate, then those the signal recipes name. */
+    public java.util.Set<String> factorsRead() {
+        java.util.Set<String> names = new java.util.LinkedHashSet<>();
+        if (riskFree != null) {
+            names.add(riskFree);
+        }
+        names.addAll(recipeFactors());
+        return names;
+    }
+
+    /** The factors the signal and control recipes read (trailing_beta's {@code against}). */
+    public java.util.Set<String> recipeFactors() {
+        java.util.Set<String> names = new java.util.LinkedHashSet<>();
+        if (signal != null) {
+            names.addAll(signal.factors());
+        }
+        if (control != null && control.signal() != null) {
+            names.addAll(control.signal().factors());
+        }
+        return names;
+    }
+
     /** The same definition restricted to another universe (all other fields unchanged). */
     public FactorDefinition withUniverse(Universe value) {
         return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance, rebalanceMonth,
-                output, riskFree, value, breakpoints, costBps, theme, rationale, foundOn);
+                output, riskFree, value, breakpoints, within, control, costBps, theme, rationale, foundOn);
     }
 
     public static Builder builder(Method method) {
@@ -167,7 +222,7 @@ public record FactorDefinition(
     public static final class Builder {
         private final Method method;
         private String panel;
-        private String signal;
+        private Recipe signal;
         private Direction direction;
         private Integer buckets;
         private Weighting weighting;
@@ -178,6 +233,8 @@ public record FactorDefinition(
         private String riskFree;
         private Universe universe;
         private LabelEquals breakpoints;
+        private String within;
+        private Control control;
         private Double costBps;
         private String theme;
         private String rationale;
@@ -192,7 +249,13 @@ public record FactorDefinition(
             return this;
         }
 
-        public Builder signal(String value) {
+        /** A plain column signal (null for none). */
+        public Builder signal(String column) {
+            signal = column == null ? null : Recipe.column(column);
+            return this;
+        }
+
+        public Builder signal(Recipe value) {
             signal = value;
             return this;
         }
@@ -247,6 +310,16 @@ public record FactorDefinition(
             return this;
         }
 
+        public Builder within(String value) {
+            within = value;
+            return this;
+        }
+
+        public Builder control(Control value) {
+            control = value;
+            return this;
+        }
+
         public Builder costBps(Double value) {
             costBps = value;
             return this;
@@ -269,7 +342,7 @@ public record FactorDefinition(
 
         public FactorDefinition build() {
             return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance,
-                    rebalanceMonth, output, riskFree, universe, breakpoints, costBps, theme, rationale, foundOn);
+                    rebalanceMonth, output, riskFree, universe, breakpoints, within, control, costBps, theme, rationale, foundOn);
         }
     }
 }

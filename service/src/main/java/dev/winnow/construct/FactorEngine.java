@@ -18,8 +18,11 @@ import java.util.Objects;
  * before the period's drift. The net return of a holding's first period is the spread minus
  * costBps / 10,000 x the formation's turnover; if that first period has no return, that cost is not charged.
  *
- * <p>The panel is read in date order, holding only the last {@code lag} cross-sections. Appending dates and
- * resuming gives bit-for-bit the series of a build over all dates at once.
+ * <p>The signal is a {@link Recipe} evaluated at R - (lag - 1) by a {@link SignalEvaluator}; a security is eligible
+ * only with a row there. The panel is read in date order, holding only the last {@code lag} cross-sections (and the
+ * columns the recipe reads over its lookback). A resumed build first re-reads the {@code lag} + lookback dates before
+ * its start; since every recipe value is a pure function of that window, appending dates and resuming gives
+ * bit-for-bit the series of a build over all dates at once.
  */
 public final class FactorEngine {
     private FactorEngine() {
@@ -33,6 +36,16 @@ public final class FactorEngine {
      * @return the observations and formations after the state's last processed date, and the new end state
      */
     public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume) {
+        return build(def, panel, riskFree, Map.of(), resume);
+    }
+
+    /**
+     * As {@link #build(FactorDefinition, PanelSource, ReturnSeries, EngineState)}, for a signal recipe that reads
+     * factors ({@code trailing_beta}): {@code signalFactors} gives the return series of each factor in
+     * {@code def.signal().factors()}.
+     */
+    public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                                    Map<String, ReturnSeries> signalFactors, EngineState resume) {
         DefinitionValidator.requireBuildable(def);
         Objects.requireNonNull(panel, "panel");
         if (def.riskFree() != null && riskFree == null) {
@@ -46,7 +59,45 @@ public final class FactorEngine {
         if (resume != null) {
             checkResumable(def, dates, resume);
         }
-        return new Run(def, panel, dates, riskFree, resume).execute();
+        return new Run(def, panel, dates, riskFree, signalFactors, resume).execute();
+    }
+
+    /**
+     * What a factor holds at grid date {@code dateIndex}: the legs of the latest formation at or before that date
+     * (a formation dated R is made on the rows at R - (lag - 1); one dated at {@code dateIndex} itself is seen when the
+     * next grid date exists), with each security's leg weight at formation and that weight drifted through the end of
+     * the date (members without a return leave, the others renormalised within their sub-portfolio, then combined
+     * with the leg's coefficients, as for turnover). Null when no formation happened by then.
+     *
+     * @param resume a state to start from whose processed dates do not pass {@link #latestFormation}'s index + 1
+     *               (a stored checkpoint), or null to start from the first date
+     */
+    public static Holdings holdings(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                                    Map<String, ReturnSeries> signalFactors, EngineState resume, int dateIndex) {
+        DefinitionValidator.requireBuildable(def);
+        List<LocalDate> dates = panel.dates();
+        if (dateIndex < 0 || dateIndex >= dates.size()) {
+            throw new IllegalArgumentException("grid index " + dateIndex + " is outside the panel's " + dates.size() + " dates");
+        }
+        if (resume != null) {
+            checkResumable(def, dates, resume);
+            if (resume.processedDates() > dateIndex + 1) {
+                throw new IllegalArgumentException("resume state is past the holdings date; start from an earlier one");
+            }
+        }
+        return new Run(def, panel, dates, riskFree, signalFactors, resume).holdingsAt(dateIndex);
+    }
+
+    /** The grid index of the latest formation dated at or before {@code dateIndex}, or -1 when there is none. */
+    public static int latestFormation(FactorDefinition def, List<LocalDate> dates, int dateIndex) {
+        RebalanceCalendar calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
+        int lag = def.effectiveLag();
+        for (int r = Math.min(dateIndex, dates.size() - 2); r >= 0 && r - (lag - 1) >= 0; r--) {
+            if (calendar.isRebalancePoint(dates.get(r), dates.get(r + 1))) {
+                return r;
+            }
+        }
+        return -1;
     }
 
     private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
@@ -68,6 +119,8 @@ public final class FactorEngine {
         private final PortfolioRule rule;
         private final RebalanceCalendar calendar;
         private final int lag;
+        private final SignalEvaluator signal;
+        private final SignalEvaluator control;
         private final double costRate;
         private final String key;
         private final int start;
@@ -76,42 +129,119 @@ public final class FactorEngine {
         private final List<Formation> formations = new ArrayList<>();
         private int withoutReturn;
 
-        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree, EngineState resume) {
+        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
+            Map<String, ReturnSeries> signalFactors, EngineState resume) {
             this.panel = panel;
             this.dates = dates;
             this.riskFree = riskFree == null ? null : byDate(riskFree);
             this.rule = PortfolioRule.of(def);
             this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
             this.lag = def.effectiveLag();
+            this.signal = def.signal() == null ? null : new SignalEvaluator(def.signal(), signalFactors, lag - 1);
+            this.control = def.control() == null ? null : new SignalEvaluator(def.control().signal(), signalFactors, lag - 1);
             this.costRate = def.effectiveCostBps() / 10_000.0;
             this.key = def.constructionKey();
             this.start = resume == null ? 0 : resume.processedDates();
             this.book = resume == null ? null : resume.holdings();
         }
 
+        private LagWindow window;
+        /** When set, each formation's leg weights at formation (before any drift) are kept in {@link #lastFormed}. */
+        private boolean trackFormations;
+        private LegWeights[] lastFormed;
+
         BuildResult execute() {
-            LagWindow window = new LagWindow(lag);
-            for (int i = Math.max(0, start - lag); i < start; i++) {
-                window.put(i, read(i));
-            }
+            prime();
             for (int t = start; t < dates.size(); t++) {
-                CrossSection rows = read(t);
-                double cost = 0.0;
-                if (t >= 1 && t - lag >= 0 && calendar.isRebalancePoint(dates.get(t - 1), dates.get(t))) {
-                    Holding[] next = rule.form(window.get(t - lag));
-                    double turnover = LegWeights.turnover(rule, next, book);
-                    formations.add(new Formation(dates.get(t - 1), turnover));
-                    cost = costRate * turnover;
-                    book = next;
-                }
-                if (book != null) {
-                    hold(rows, cost);
-                }
-                window.put(t, rows);
+                step(t);
             }
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
             return new BuildResult(observations, formations, end, withoutReturn);
+        }
+
+        /** Re-reads the dates before the start that the lag and the signals' lookback need. */
+        private void prime() {
+            window = new LagWindow(lag);
+            int history = lag + Math.max(signal == null ? 0 : signal.lookback(), control == null ? 0 : control.lookback());
+            for (int i = Math.max(0, start - history); i < start; i++) {
+                CrossSection rows = read(i);
+                if (i >= start - lag) {
+                    window.put(i, rows);
+                }
+                offer(i, rows);
+            }
+        }
+
+        /** Processes grid date t: the formation dated t - 1 if it is a rebalance point, then one holding period. */
+        private boolean step(int t) {
+            CrossSection rows = read(t);
+            double cost = 0.0;
+            boolean formed = formsAt(t);
+            if (formed) {
+                Holding[] next = form(t);
+                double turnover = LegWeights.turnover(rule, next, book);
+                formations.add(new Formation(dates.get(t - 1), turnover));
+                cost = costRate * turnover;
+                book = next;
+                if (trackFormations) {
+                    lastFormed = legs(next);
+                }
+            }
+            if (book != null) {
+                hold(rows, cost);
+            }
+            window.put(t, rows);
+            offer(t, rows);
+            return formed;
+        }
+
+        /** Whether processing grid date t starts with a formation (dated t - 1). */
+        private boolean formsAt(int t) {
+            return t >= 1 && t - lag >= 0 && calendar.isRebalancePoint(dates.get(t - 1), dates.get(t));
+        }
+
+        /** The formation dated t - 1, on the rows and signals at t - lag. */
+        private Holding[] form(int t) {
+            return rule.form(window.get(t - lag), signal == null ? null : signal.valueAt(t - lag),
+                    control == null ? null : control.valueAt(t - lag));
+        }
+
+        /** The latest formation at or before grid date d and its legs drifted through the end of d; null if none. */
+        Holdings holdingsAt(int d) {
+            prime();
+            trackFormations = true;
+            LegWeights[] formed = null;
+            LocalDate formedOn = null;
+            for (int t = start; t <= d; t++) {
+                if (step(t)) {
+                    formed = lastFormed;
+                    formedOn = dates.get(t - 1);
+                }
+            }
+            if (d + 1 < dates.size() && formsAt(d + 1)) {
+                LegWeights[] atFormation = legs(form(d + 1));
+                return Holdings.of(dates.get(d), dates.get(d), atFormation, atFormation);
+            }
+            if (formed == null) {
+                return null;
+            }
+            return Holdings.of(dates.get(d), formedOn, formed, legs(book));
+        }
+
+        private LegWeights[] legs(Holding[] holdings) {
+            return new LegWeights[] {LegWeights.of(holdings, rule.longLeg()),
+                rule.shortLeg().length == 0 ? null : LegWeights.of(holdings, rule.shortLeg())};
+        }
+
+        /** Hands a cross-section to the signal evaluators; earlier offers may start anywhere before it. */
+        private void offer(int index, CrossSection rows) {
+            if (signal != null && index >= start - lag - signal.lookback()) {
+                signal.offer(index, rows);
+            }
+            if (control != null && index >= start - lag - control.lookback()) {
+                control.offer(index, rows);
+            }
         }
 
         private CrossSection read(int index) {

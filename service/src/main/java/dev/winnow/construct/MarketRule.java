@@ -11,8 +11,8 @@ final class MarketRule implements PortfolioRule {
     }
 
     @Override
-    public Holding[] form(CrossSection rows) {
-        return new Holding[] {Holding.of(rows, Eligibility.eligibleRows(def, rows), capWeighted)};
+    public Holding[] form(CrossSection rows, double[] signal) {
+        return new Holding[] {Holding.of(rows, Eligibility.eligibleRows(def, rows, null), capWeighted)};
     }
 
     @Override

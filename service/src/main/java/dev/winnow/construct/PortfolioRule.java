@@ -8,8 +8,20 @@ import dev.winnow.construct.FactorDefinition.Weighting;
  */
 interface PortfolioRule {
 
-    /** The sub-portfolios formed on these rows, always the same number and order; empty ones are allowed. */
-    Holding[] form(CrossSection rows);
+    /**
+     * The sub-portfolios formed on these rows, always the same number and order; empty ones are allowed.
+     *
+     * @param signal the definition's signal evaluated at these rows (aligned with them), null for methods without one
+     */
+    Holding[] form(CrossSection rows, double[] signal);
+
+    /**
+     * The same with the control signal of a dependent double sort (aligned with the rows); rules without one
+     * ignore it.
+     */
+    default Holding[] form(CrossSection rows, double[] signal, double[] control) {
+        return form(rows, signal);
+    }
 
     /** Indices into {@link #form}'s result that make up the long leg. */
     int[] longLeg();
@@ -19,7 +31,9 @@ interface PortfolioRule {
 
     static PortfolioRule of(FactorDefinition def) {
         return switch (def.method()) {
-            case SORT -> new BucketSortRule(def);
+            case SORT -> def.within() != null ? new WithinGroupSortRule(def)
+                    : def.control() != null ? new DependentDoubleSortRule(def) : new BucketSortRule(def);
+            case RANK_WEIGHTED -> new RankWeightedRule(def);
             case SIZE_SORT -> new TwoByThreeRule(def);
             case MARKET -> new MarketRule(def);
             case EXTERNAL -> throw new IllegalArgumentException("method external has no formation rule");

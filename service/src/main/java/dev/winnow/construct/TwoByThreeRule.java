@@ -34,16 +34,15 @@ final class TwoByThreeRule implements PortfolioRule {
     }
 
     @Override
-    public Holding[] form(CrossSection rows) {
-        int[] eligible = Eligibility.eligibleRows(def, rows);
+    public Holding[] form(CrossSection rows, double[] signal) {
+        int[] eligible = Eligibility.eligibleRows(def, rows, signal);
         int[] breakpointRows = Eligibility.breakpointRows(def, rows, eligible);
         Holding[] six = new Holding[6];
         if (breakpointRows.length == 0) {
             Arrays.setAll(six, k -> Holding.empty());
         } else {
             double[] caps = rows.marketCaps();
-            double[] signal = rows.numberColumn(def.signal());
-            double sizeCut = Quantiles.type7Sorted(Eligibility.sortedValues(caps, breakpointRows), 0.5);
+                double sizeCut = Quantiles.type7Sorted(Eligibility.sortedValues(caps, breakpointRows), 0.5);
             double[] sortedSignal = Eligibility.sortedValues(signal, breakpointRows);
             double p30 = Quantiles.type7Sorted(sortedSignal, 0.3);
             double p70 = Quantiles.type7Sorted(sortedSignal, 0.7);

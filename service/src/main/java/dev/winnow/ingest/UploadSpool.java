@@ -1,42 +1,246 @@
 package dev.winnow.ingest;
 
+import dev.winnow.store.Limits;
+import dev.winnow.store.StorageFaults;
+
+import java.io.FilterInputStream;
 import java.io.IOException;
 import java.io.InputStream;
-import java.io.OutputStream;
+import java.io.UncheckedIOException;
+import java.nio.ByteBuffer;
 import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
 import java.util.UUID;
+import java.util.zip.GZIPInputStream;
 
 /**
  * Upload bodies are written to disk and forced to stable storage before the job is queued and 202 is answered,
  * so an acknowledged upload survives a crash.
+ *
+ * <p>Every upload is bounded ({@link Limits}): it is refused before a byte is written while the data directory's free
+ * space is below {@code minFreeBytes} or would fall below it with the declared length, and stopped as soon as the
+ * bytes received, or the decoded bytes of a gzip body, pass {@code maxUploadBytes}. A refused upload leaves no file.
  */
 public final class UploadSpool {
+    private static final int BUFFER = 1 << 16;
+    /** Free space is checked again after every this many bytes written. */
+    private static final long SPACE_CHECK_EVERY = 16L << 20;
+
     private final Path dataDir;
     private final Path dir;
+    private final Limits limits;
 
     public UploadSpool(Path dataDir) {
+        this(dataDir, Limits.DEFAULTS);
+    }
+
+    public UploadSpool(Path dataDir, Limits limits) {
         this.dataDir = dataDir;
         this.dir = dataDir.resolve("spool");
+        this.limits = limits;
+    }
+
+    /** The upload passed {@link Limits#maxUploadBytes()}, counted as received or as decoded. */
+    public static final class UploadTooLargeException extends RuntimeException {
+        private final long limit;
+
+        UploadTooLargeException(long limit, boolean decoded) {
+            super("The upload is larger than the limit of " + Limits.describe(limit) + (decoded ? " once decompressed" : "")
+                    + " (WINNOW_MAX_UPLOAD_BYTES); split it into several uploads (append one range of dates after another)"
+                    + " or ask the operator to raise the limit.");
+            this.limit = limit;
+        }
+
+        public long limit() {
+            return limit;
+        }
+    }
+
+    /** The data directory is too full, or cannot be written, to take the upload. */
+    public static final class StorageFullException extends RuntimeException {
+        StorageFullException(String message) {
+            super(message);
+        }
     }
 
     /** Copies the stream to a new spool file; returns its path relative to the data dir and its size. */
     public Spooled write(InputStream body) throws IOException {
-        Files.createDirectories(dir);
-        Path file = dir.resolve(UUID.randomUUID() + ".upload");
-        long size;
-        try (FileChannel channel = FileChannel.open(file, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE);
-             OutputStream out = java.nio.channels.Channels.newOutputStream(channel)) {
-            size = body.transferTo(out);
-            out.flush();
-            channel.force(true);
-        } catch (IOException e) {
-            Files.deleteIfExists(file);
-            throw e;
+        return write(body, -1, false);
+    }
+
+    /**
+     * Copies the body to a new spool file within the limits and forces it to disk.
+     *
+     * @param declaredLength the request's Content-Length, or -1 when unknown
+     * @param gzip           whether the body is gzip data; its decoded size is counted too
+     * @throws UploadTooLargeException as soon as the limit is passed
+     * @throws StorageFullException    when free space is short or the spool cannot be written
+     * @throws IOException             when the body cannot be read (the client went away)
+     */
+    public Spooled write(InputStream body, long declaredLength, boolean gzip) throws IOException {
+        if (declaredLength > limits.maxUploadBytes()) {
+            throw new UploadTooLargeException(limits.maxUploadBytes(), false);
         }
-        return new Spooled(dataDir.relativize(file).toString(), size);
+        try {
+            Files.createDirectories(dir);
+        } catch (IOException e) {
+            throw unwritable(e);
+        }
+        checkFreeSpace(Math.max(0, declaredLength));
+        Path file = dir.resolve(UUID.randomUUID() + ".upload");
+        boolean kept = false;
+        try (FileChannel channel = openNew(file)) {
+            Copy copy = new Copy(body, channel);
+            if (gzip) {
+                copy.countDecoded();
+            }
+            copy.drain();
+            try {
+                channel.force(true);
+            } catch (IOException e) {
+                throw unwritable(e);
+            }
+            kept = true;
+            return new Spooled(dataDir.relativize(file).toString(), copy.written);
+        } finally {
+            if (!kept) {
+                Files.deleteIfExists(file);
+            }
+        }
+    }
+
+    private FileChannel openNew(Path file) {
+        try {
+            return FileChannel.open(file, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE);
+        } catch (IOException e) {
+            throw unwritable(e);
+        }
+    }
+
+    /** Free space of the data directory, or -1 when it cannot be told. */
+    public long freeBytes() {
+        try {
+            return Files.getFileStore(Files.isDirectory(dir) ? dir : dataDir).getUsableSpace();
+        } catch (IOException | UncheckedIOException e) {
+            return -1;
+        }
+    }
+
+    /** True while the data directory has at least {@link Limits#minFreeBytes()} free (or its free space is unknown). */
+    public boolean hasMinimumFreeSpace() {
+        long free = freeBytes();
+        return free < 0 || free >= limits.minFreeBytes();
+    }
+
+    private void checkFreeSpace(long comingBytes) {
+        long free = freeBytes();
+        if (free < 0) {
+            return;
+        }
+        if (free - comingBytes < limits.minFreeBytes()) {
+            String left = comingBytes > 0 && free >= limits.minFreeBytes()
+                    ? " and would have " + Limits.describe(Math.max(0, free - comingBytes)) + " after this upload of "
+                    + Limits.describe(comingBytes) : "";
+            throw new StorageFullException("The data directory has " + Limits.describe(free) + " free" + left
+                    + ", below the " + Limits.describe(limits.minFreeBytes()) + " it must keep (WINNOW_MIN_FREE_BYTES); "
+                    + "uploads are refused until the operator frees space. Nothing was stored; send the upload again later.");
+        }
+    }
+
+    private StorageFullException unwritable(IOException e) {
+        return new StorageFullException("The upload could not be written to the data directory ("
+                + (StorageFaults.isDiskFull(e) ? "the disk is full" : "it cannot be written") + "); nothing was stored. "
+                + "Send the upload again once the operator has fixed the storage.");
+    }
+
+    /** The copy loop: reads the body, writes it to the file, counts raw and (for gzip) decoded bytes. */
+    private final class Copy {
+        private final InputStream body;
+        private final FileChannel channel;
+        private final byte[] buffer = new byte[BUFFER];
+        private long written;
+        private long nextSpaceCheck = SPACE_CHECK_EVERY;
+
+        Copy(InputStream body, FileChannel channel) {
+            this.body = body;
+            this.channel = channel;
+        }
+
+        /** Reads the body through a gzip decoder that only counts; a body that is not valid gzip is left to the job. */
+        void countDecoded() throws IOException {
+            InputStream tee = new FilterInputStream(body) {
+                @Override
+                public int read() throws IOException {
+                    byte[] one = new byte[1];
+                    int n = read(one, 0, 1);
+                    return n < 0 ? -1 : one[0] & 0xff;
+                }
+
+                @Override
+                public int read(byte[] b, int off, int len) throws IOException {
+                    int n = in.read(b, off, len);
+                    if (n > 0) {
+                        store(b, off, n);
+                    }
+                    return n;
+                }
+            };
+            long decoded = 0;
+            try (GZIPInputStream gz = new GZIPInputStream(new NonClosing(tee), BUFFER)) {
+                byte[] out = new byte[BUFFER];
+                for (int n; (n = gz.read(out)) >= 0; ) {
+                    decoded += n;
+                    if (decoded > limits.maxUploadBytes()) {
+                        throw new UploadTooLargeException(limits.maxUploadBytes(), true);
+                    }
+                }
+            } catch (java.util.zip.ZipException | java.io.EOFException notGzip) {
+                // the job reports the broken gzip data with its line; spool the rest as it is
+            }
+        }
+
+        void drain() throws IOException {
+            for (int n; (n = body.read(buffer)) >= 0; ) {
+                store(buffer, 0, n);
+            }
+        }
+
+        private void store(byte[] b, int off, int n) {
+            written += n;
+            if (written > limits.maxUploadBytes()) {
+                throw new UploadTooLargeException(limits.maxUploadBytes(), false);
+            }
+            if (written >= nextSpaceCheck) {
+                nextSpaceCheck += SPACE_CHECK_EVERY;
+                checkFreeSpace(0);
+            }
+            try {
+                ByteBuffer buf = ByteBuffer.wrap(b, off, n);
+                while (buf.hasRemaining()) {
+                    channel.write(buf);
+                }
+            } catch (IOException e) {
+                throw unwritable(e);
+            }
+        }
+    }
+
+    /** Keeps the gzip decoder from closing the request body. */
+    private static final class NonClosing extends FilterInputStream {
+        NonClosing(InputStream in) {
+            super(in);
+        }
+
+        @Override
+        public int read(byte[] b, int off, int len) throws IOException {
+            return in.read(b, off, len);
+        }
+
+        @Override
+        public void close() {
+        }
     }
 
     public Path resolve(String relative) {
@@ -44,6 +248,9 @@ public final class UploadSpool {
     }
 
     public void delete(String relative) {
+        if (relative == null) {
+            return;
+        }
         try {
             Files.deleteIfExists(resolve(relative));
         } catch (IOException e) {

@@ -3,13 +3,13 @@ package dev.winnow.stats;
 import java.util.Arrays;
 
 /** Average ranks (ties share the mean of the ranks they span) without boxing, for Spearman's rank correlation. */
-final class Ranks {
+public final class Ranks {
 
     private Ranks() {
     }
 
     /** 1-based average ranks of x[0..n): a value whose equals occupy sorted positions k..end-1 gets (k+1+end)/2. */
-    static double[] averageRanks(double[] x, int n) {
+    public static double[] averageRanks(double[] x, int n) {
         double[] values = n == x.length ? x : Arrays.copyOf(x, n);
         int[] order = sortedOrder(values);
         double[] ranks = new double[n];

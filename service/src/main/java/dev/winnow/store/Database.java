@@ -2,6 +2,7 @@ package dev.winnow.store;
 
 import com.zaxxer.hikari.HikariConfig;
 import com.zaxxer.hikari.HikariDataSource;
+import com.zaxxer.hikari.SQLExceptionOverride;
 import org.flywaydb.core.Flyway;
 import org.jdbi.v3.core.Jdbi;
 
@@ -66,6 +67,15 @@ public final class Database implements AutoCloseable {
             // an embedded database lives as long as a connection to it: never retire them all at once
             config.setMaxLifetime(0);
         }
+        // a connection that met a storage fault (H2 closes its database when a write fails) is never handed out
+        // again, so once the disk has room the next connection opens the database afresh
+        config.setExceptionOverride(new SQLExceptionOverride() {
+            @java.lang.Override
+            public SQLExceptionOverride.Override adjudicate(java.sql.SQLException e) {
+                return StorageFaults.isStorageFault(e) ? SQLExceptionOverride.Override.MUST_EVICT
+                        : SQLExceptionOverride.Override.CONTINUE_EVICT;
+            }
+        });
         if (metricRegistry != null) {
             config.setMetricRegistry(metricRegistry);
         }

@@ -5,6 +5,7 @@ import org.jdbi.v3.core.mapper.RowMapper;
 
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
+import java.util.Map;
 import java.util.Optional;
 
 /** The job queue and its progress reports. Jobs run one at a time in id order. */
@@ -51,6 +52,20 @@ public final class JobStore {
     public java.util.List<JobRecord> queued(String kind) {
         return jdbi.withHandle(h -> h.createQuery("SELECT " + COLUMNS + " FROM jobs WHERE state = 'queued' AND kind = :k ORDER BY id")
                 .bind("k", kind).map(MAPPER).list());
+    }
+
+    /** Jobs waiting and running, for /health. */
+    public record QueueCounts(long queued, long running) {
+    }
+
+    public QueueCounts queueCounts() {
+        return jdbi.withHandle(h -> {
+            long[] counts = new long[2];
+            h.createQuery("SELECT state, COUNT(*) FROM jobs WHERE state IN ('queued', 'running') GROUP BY state")
+                    .map((rs, ctx) -> Map.entry(rs.getString(1), rs.getLong(2)))
+                    .forEach(e -> counts[e.getKey().equals("queued") ? 0 : 1] = e.getValue());
+            return new QueueCounts(counts[0], counts[1]);
+        });
     }
 
     public void markRunning(long id) {

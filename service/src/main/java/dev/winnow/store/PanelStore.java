@@ -190,6 +190,18 @@ public final class PanelStore {
         jdbi.useTransaction(h -> discard(h, uploadId));
     }
 
+    /** Discards what a job staged and did not commit (after a job failed on a storage fault). Returns how many uploads. */
+    public int discardStagingOfJob(long jobId) {
+        return jdbi.inTransaction(h -> {
+            List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE state = 'staging' AND job_id = :j")
+                    .bind("j", jobId).mapTo(Long.class).list();
+            for (long id : staging) {
+                discard(h, id);
+            }
+            return staging.size();
+        });
+    }
+
     /** At start-up: discards uploads a crash left in staging. Returns how many. */
     public int discardAllStaging() {
         return jdbi.inTransaction(h -> {

@@ -16,6 +16,7 @@ import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.Duration;
 import java.util.Comparator;
+import java.util.List;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
@@ -33,6 +34,7 @@ class CrashRecoveryEndToEndTest {
     private TestDatabase database;
     private Process process;
     private int port;
+    private String dbUrl;
 
     @AfterEach
     void cleanUp() throws Exception {
@@ -95,13 +97,46 @@ class CrashRecoveryEndToEndTest {
         assertEquals(1 + securities, panel.path("securities").asInt(), panel.toString());
     }
 
+    /**
+     * Issue 14: with WINNOW_DB_URL naming an H2 file the operator chose (spelled without Winnow's settings), an
+     * upload answered 202 and killed at once must still be there after the restart, its job queued again.
+     */
+    @org.junit.jupiter.params.ParameterizedTest(name = "operator URL {0}")
+    @org.junit.jupiter.params.provider.ValueSource(strings = {"jdbc:h2:file:%s/elsewhere/store", "jdbc:h2:%s/elsewhere/store;FILE_LOCK=FS"})
+    void acknowledgedUploadSurvivesAKillWithAnOperatorSuppliedUrl(String urlTemplate) throws Exception {
+        dir = Files.createTempDirectory("winnow-crash-url");
+        port = freePort();
+        org.junit.jupiter.api.Assumptions.assumeFalse(TestDatabase.onPostgres(), "operator H2 URLs are an H2 matter");
+        dbUrl = String.format(urlTemplate, dir.toAbsolutePath());
+        startService();
+        List<String> jobs = new java.util.ArrayList<>();
+        for (int i = 0; i < 5; i++) {
+            jobs.add(upload("date,security,return\n2020-01-0" + (i + 1) + ",A,0.01\n"));
+        }
+        process.destroyForcibly().waitFor();
+        Files.move(dir.resolve("service.log"), dir.resolve("service-before-kill.log"));
+
+        startService();
+        for (String job : jobs) {
+            JsonNode finished = await(job);
+            assertEquals("succeeded", finished.path("state").asText(), finished.toString());
+        }
+        assertEquals(5, get("/v1/panels/crash").path("dates").asInt());
+        assertTrue(Files.exists(dir.resolve("elsewhere")), "the store is where the URL says");
+    }
+
     private void startService() throws Exception {
         ProcessBuilder pb = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "java").toString(),
                 "-Xmx256m", "-cp", System.getProperty("java.class.path"), "dev.winnow.app.Main", "serve");
         pb.environment().put("WINNOW_PORT", String.valueOf(port));
         pb.environment().put("WINNOW_DATA_DIR", dir.toString());
-        pb.environment().put("WINNOW_DB_URL", database.url());
+        if (database != null) {
+            pb.environment().put("WINNOW_DB_URL", database.url());
+        }
         pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);
+        if (dbUrl != null) {
+            pb.environment().put("WINNOW_DB_URL", dbUrl);
+        }
         pb.redirectErrorStream(true).redirectOutput(dir.resolve("service.log").toFile());
         process = pb.start();
         long deadline = System.nanoTime() + Duration.ofSeconds(60).toNanos();

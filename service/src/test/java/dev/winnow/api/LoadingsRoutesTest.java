@@ -3,8 +3,9 @@ package dev.winnow.api;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
 import dev.winnow.construct.CrossSection;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.LoadingsJobs;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.research.LoadingsRefresh;
+import dev.winnow.research.LoadingsService;
 import dev.winnow.stats.CrossSectionalZScore;
 import dev.winnow.store.LoadingsTestStore;
 import io.javalin.Javalin;
@@ -52,7 +53,8 @@ class LoadingsRoutesTest {
         store.factor("mkt", dates, f[0]);
         store.factor("value", dates, f[1]);
         store.factor("carry", dates, f[2]);
-        LoadingsRoutes routes = new LoadingsRoutes(store.panels, store.factors, store.loadings, new JobQueue(store.jobs));
+        LoadingsRoutes routes = new LoadingsRoutes(store.panels,
+                new LoadingsService(store.panels, store.factors, store.loadings, new JobQueue(store.jobs)));
         server = Javalin.create(config -> {
             config.startup.showJavalinBanner = false;
             config.jetty.host = "127.0.0.1";
@@ -63,7 +65,7 @@ class LoadingsRoutesTest {
             config.routes.put("/v1/panels/{panel}/loadings-config", routes::putConfig);
             config.routes.get("/v1/panels/{panel}/loadings-config", routes::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", routes::history);
-            config.routes.exception(ApiProblem.class, (e, ctx) -> ApiServer.problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
+            ApiServer.mapErrors(config);
         }).start();
     }
 
@@ -162,7 +164,7 @@ class LoadingsRoutesTest {
         Reply job = send("POST", "/v1/panels/" + PANEL + "/loadings-config/history", "");
         assertEquals(202, job.status(), job.body());
         assertTrue(job.json().get("job").asText().matches("\\d+"));
-        new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+        new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
 
         Reply stored = get("/v1/loadings?panel=" + PANEL);
         assertEquals("stored", stored.source());

@@ -32,11 +32,19 @@ public final class TestServer implements AutoCloseable {
 
     private final Path dir;
     private final TestDatabase database;
+    private final dev.winnow.store.Limits limits;
     private Winnow winnow;
     private final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     public TestServer() throws IOException {
-        this.dir = Files.createTempDirectory("winnow-test");
+        // no free-space floor: the tests' uploads must not depend on how full the machine's disk is
+        this(Files.createTempDirectory("winnow-test"), new dev.winnow.store.Limits(dev.winnow.store.Limits.DEFAULTS.maxUploadBytes(), 0));
+    }
+
+    /** A server on the given data directory with the given limits (tests of limits and storage faults). */
+    public TestServer(Path dir, dev.winnow.store.Limits limits) throws IOException {
+        this.dir = dir;
+        this.limits = limits;
         this.database = TestDatabase.fresh(dir, Config.defaultH2Url(dir));
         start();
     }
@@ -47,7 +55,7 @@ public final class TestServer implements AutoCloseable {
 
     /** The configuration this server runs with: port 0, its store, the test admin token. */
     public Config config() {
-        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN);
+        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN).withLimits(limits);
     }
 
     /** The JDBC URL of this server's store. */

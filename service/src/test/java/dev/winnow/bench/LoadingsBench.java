@@ -3,14 +3,14 @@ package dev.winnow.bench;
 import dev.winnow.api.LoadingsRoutes;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.FactorGrid;
-import dev.winnow.construct.LoadingsTestPanel;
 import dev.winnow.construct.LoadingsSpec;
 import dev.winnow.construct.LoadingsTable;
+import dev.winnow.construct.LoadingsTestPanel;
 import dev.winnow.construct.PanelSource;
 import dev.winnow.construct.SecurityLoadings;
-import dev.winnow.ingest.JobQueue;
-import dev.winnow.ingest.LoadingsJobs;
-import dev.winnow.ingest.LoadingsRefresh;
+import dev.winnow.jobs.JobQueue;
+import dev.winnow.research.LoadingsRefresh;
+import dev.winnow.research.LoadingsService;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.LoadingsFactors;
 import dev.winnow.store.LoadingsStore;
@@ -92,7 +92,8 @@ public final class LoadingsBench {
             report("stored loadings read + decoded from H2", 20,
                     () -> store.loadings.read(panelId, dates.get(last), fingerprint).orElseThrow());
 
-            LoadingsRoutes routes = new LoadingsRoutes(store.panels, store.factors, store.loadings, new JobQueue(store.jobs));
+            LoadingsRoutes routes = new LoadingsRoutes(store.panels,
+                    new LoadingsService(store.panels, store.factors, store.loadings, new JobQueue(store.jobs)));
             Javalin server = Javalin.create(config -> {
                 config.startup.showJavalinBanner = false;
                 config.jetty.host = "127.0.0.1";
@@ -107,7 +108,7 @@ public final class LoadingsBench {
             } finally {
                 server.stop();
             }
-            Map<String, Object> job = new LoadingsJobs(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+            Map<String, Object> job = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
             System.out.println("(history job check: " + job.get("computed_dates") + " dates stored)");
         }
     }

@@ -29,7 +29,7 @@ class DefinitionValidatorTest {
     @Test
     void unknownSignalListsTheNumericColumns() {
         List<String> problems = DefinitionValidator.validate(sort().signal("sector").build(), ACME);
-        assertEquals(List.of("signal 'sector' is not a numeric column of panel 'acme'; numeric columns are: "
+        assertEquals(List.of("signal: column 'sector' of panel acme holds labels, not numbers; numeric columns are "
                 + "return, market_cap, bm, momentum"), problems);
     }
 
@@ -94,7 +94,7 @@ class DefinitionValidatorTest {
 
     @Test
     void missingMethodAndSignal() {
-        assertEquals(List.of("method is required: one of sort, size_sort, market, external"),
+        assertEquals(List.of("method is required: one of sort, size_sort, market, rank_weighted, external"),
                 DefinitionValidator.validate(FactorDefinition.builder(null).build(), ACME));
         assertEquals(List.of("signal is required for method size_sort: name a numeric column of the panel"),
                 DefinitionValidator.validate(FactorDefinition.builder(Method.SIZE_SORT).panel("acme").build(), ACME));

@@ -1,0 +1,78 @@
+package dev.winnow.jobs;
+
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.research.FactorBuilds;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.JobStore.Counters;
+import dev.winnow.store.JobStore.JobRecord;
+import dev.winnow.store.JsonText;
+
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Job kind {@code factor_build}: builds one factor version from scratch, then rebuilds the live, ready factors that
+ * read it (as their risk_free rate or in their signal recipe), since their series depend on its returns.
+ */
+public final class FactorBuildJob implements JobHandler {
+    private final FactorStore factors;
+    private final FactorBuilds builds;
+
+    public FactorBuildJob(FactorStore factors, FactorBuilds builds) {
+        this.factors = factors;
+        this.builds = builds;
+    }
+
+    @Override
+    public JobOutcome run(JobRecord job, ProgressReporter progress) {
+        Map<String, Object> params = JsonText.readMap(job.params());
+        String name = (String) params.get("factor");
+        int version = ((Number) params.get("version")).intValue();
+        FactorVersionRecord v = factors.version(name, version).orElse(null);
+        if (v == null) {
+            return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
+        }
+        try {
+            Map<String, Object> report = new LinkedHashMap<>();
+            report.put("factor", name);
+            report.put("version", version);
+            report.putAll(builds.rebuild(v));
+            report.put("dependents", rebuildDependents(name));
+            return JobOutcome.success(new Counters(1, 0, 0, 0), report);
+        } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
+            String message = "factor " + name + " v" + version + " could not be built: " + e.getMessage();
+            factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", message)));
+            return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, message)));
+        }
+    }
+
+    private List<Map<String, Object>> rebuildDependents(String name) {
+        List<Map<String, Object>> rebuilt = new java.util.ArrayList<>();
+        List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.listCurrent(false));
+        java.util.Set<String> changed = new java.util.HashSet<>(List.of(name));
+        for (FactorVersionRecord dependent : live) {
+            if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
+                continue;
+            }
+            FactorDefinition def = FactorBuilds.definition(dependent);
+            if (changed.stream().noneMatch(c -> FactorBuilds.dependsOn(def, c))) {
+                continue;
+            }
+            Map<String, Object> entry = new LinkedHashMap<>();
+            entry.put("factor", dependent.name());
+            entry.put("version", dependent.version());
+            try {
+                entry.putAll(builds.rebuild(dependent));
+                entry.put("action", "rebuilt");
+                changed.add(dependent.name());
+            } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
+                entry.put("action", "failed");
+                entry.put("error", e.getMessage());
+            }
+            rebuilt.add(entry);
+        }
+        return rebuilt;
+    }
+}

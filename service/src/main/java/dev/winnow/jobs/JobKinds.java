@@ -1,0 +1,11 @@
+package dev.winnow.jobs;
+
+/** The kinds of job the worker runs. */
+public final class JobKinds {
+    public static final String PANEL_UPLOAD = "panel_upload";
+    public static final String SERIES_UPLOAD = "series_upload";
+    public static final String FACTOR_BUILD = "factor_build";
+
+    private JobKinds() {
+    }
+}

@@ -1,0 +1,44 @@
+package dev.winnow.jobs;
+
+import dev.winnow.research.WorkQueue;
+import dev.winnow.store.JobStore;
+import dev.winnow.store.JsonText;
+
+import java.util.LinkedHashMap;
+import java.util.Map;
+
+/** Queues jobs in the store and wakes the worker. */
+public final class JobQueue implements WorkQueue {
+    private final JobStore jobs;
+    private volatile JobWorker worker;
+
+    public JobQueue(JobStore jobs) {
+        this.jobs = jobs;
+    }
+
+    void attach(JobWorker worker) {
+        this.worker = worker;
+    }
+
+    public long enqueue(String kind, Map<String, Object> params) {
+        long id = jobs.enqueue(kind, JsonText.write(params));
+        JobWorker w = worker;
+        if (w != null) {
+            w.wake();
+        }
+        return id;
+    }
+
+    @Override
+    public long queueFactorBuild(String factor, int version) {
+        Map<String, Object> params = new LinkedHashMap<>();
+        params.put("factor", factor);
+        params.put("version", version);
+        return enqueue(JobKinds.FACTOR_BUILD, params);
+    }
+
+    @Override
+    public long queueLoadingsHistory(String panel, long panelId) {
+        return enqueue(LoadingsJobs.KIND, LoadingsJobs.params(panel, panelId));
+    }
+}

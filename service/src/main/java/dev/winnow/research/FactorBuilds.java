@@ -1,0 +1,276 @@
+package dev.winnow.research;
+
+import dev.winnow.construct.BuildResult;
+import dev.winnow.construct.CheckpointedBuild;
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.construct.EngineState;
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorEngine;
+import dev.winnow.construct.Holdings;
+import dev.winnow.construct.FactorObservation;
+import dev.winnow.construct.Formation;
+import dev.winnow.stats.ReturnSeries;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.FactorStore.Replaced;
+import dev.winnow.store.FactorStore.StoredBuild;
+import dev.winnow.store.FactorStore.StoredCheckpoint;
+import dev.winnow.store.FactorStore.StoredReturn;
+import dev.winnow.store.FactorStore.StoredTurnover;
+import dev.winnow.store.JsonText;
+import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorePanelSource;
+
+import java.time.LocalDate;
+import java.util.ArrayList;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Builds factor versions from their panels into the store: from scratch, by resuming the stored engine state so that
+ * an append costs only the new dates, or, after a revision, by resuming from the last stored checkpoint before the
+ * first changed date so that a revision costs the revised span plus at most one checkpoint segment. Each gives the same
+ * bits as a full rebuild.
+ */
+public final class FactorBuilds {
+    /**
+     * Grid dates between stored checkpoints: about one year of daily dates. A revision recomputes at most this many
+     * dates before its first changed date, while a 25-year daily factor keeps only about 25 states, and each segment
+     * adds only the re-reading of {@code lag} cross-sections (usually still cached) to a full build.
+     */
+    static final int CHECKPOINT_DATES = 252;
+
+    private final PanelStore panels;
+    private final FactorStore factors;
+    private final int checkpointDates;
+
+    public FactorBuilds(PanelStore panels, FactorStore factors) {
+        this(panels, factors, CHECKPOINT_DATES);
+    }
+
+    /** With another checkpoint spacing, so tests can have several checkpoints on a short panel. */
+    FactorBuilds(PanelStore panels, FactorStore factors, int checkpointDates) {
+        if (checkpointDates < 1) {
+            throw new IllegalArgumentException("checkpoint spacing must be at least 1 grid date, got " + checkpointDates);
+        }
+        this.panels = panels;
+        this.factors = factors;
+        this.checkpointDates = checkpointDates;
+    }
+
+    /** Thrown when a version cannot be built as defined (its panel or risk-free series is missing, say). */
+    public static final class FactorBuildException extends Exception {
+        public FactorBuildException(String message) {
+            super(message);
+        }
+    }
+
+    /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
+    public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
+        FactorDefinition def = definition(v);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
+        Map<String, Object> report = report(run.build(), 0, 0);
+        save(v, run, report, Replaced.EVERYTHING);
+        return report;
+    }
+
+    /** Extends a version over dates appended to its panel, from its stored engine state. */
+    public Map<String, Object> extend(FactorVersionRecord v) throws FactorBuildException {
+        byte[] stateBytes = factors.engineState(v.factorId(), v.version());
+        if (stateBytes == null) {
+            return rebuild(v);
+        }
+        FactorDefinition def = definition(v);
+        EngineState state = EngineState.fromBytes(stateBytes);
+        Map<String, Object> previous = v.buildReport() == null ? Map.of() : JsonText.readMap(v.buildReport());
+        int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
+        int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), state,
+                previousObservations, previousMissing, checkpointDates);
+        Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
+        save(v, run, report, Replaced.NOTHING);
+        return report;
+    }
+
+    /**
+     * Brings a version up to date after its panel's or risk-free series' data changed on or after
+     * {@code earliestChanged} (null: anywhere): resumes from the latest checkpoint whose last date is before it and
+     * whose grid position still holds (a revision may add dates, never remove them), and replaces what follows it in
+     * one transaction. Without such a checkpoint, rebuilds from scratch. The report adds {@code rebuilt_from} (the
+     * checkpoint's date, null for a full rebuild) and {@code recomputed_dates}.
+     */
+    public Map<String, Object> rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
+        FactorDefinition def = definition(v);
+        StorePanelSource panel = panelSource(v, def);
+        StoredCheckpoint checkpoint = earliestChanged == null ? null
+                : factors.latestCheckpointBefore(v.factorId(), v.version(), earliestChanged)
+                        .filter(c -> resumable(c, def, panel.dates()))
+                        .orElse(null);
+        if (checkpoint == null) {
+            Map<String, Object> report = new LinkedHashMap<>(rebuild(v));
+            report.put("rebuilt_from", null);
+            report.put("recomputed_dates", panel.dates().size());
+            return report;
+        }
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, riskFree(def), signalFactors(def), EngineState.fromBytes(checkpoint.state()),
+                checkpoint.observations(), checkpoint.periodsWithoutReturn(), checkpointDates);
+        Map<String, Object> report = report(run.build(), checkpoint.observations(), checkpoint.periodsWithoutReturn());
+        report.put("rebuilt_from", checkpoint.lastDate().toString());
+        report.put("recomputed_dates", panel.dates().size() - checkpoint.processedDates());
+        save(v, run, report, Replaced.after(checkpoint));
+        return report;
+    }
+
+    /**
+     * What a version holds at grid date {@code dateIndex} (see {@link FactorEngine#holdings}), replayed from the latest
+     * stored checkpoint at or before its latest formation (from the first date without one); null when no formation
+     * happened by then.
+     */
+    public Holdings holdings(FactorVersionRecord v, int dateIndex) throws FactorBuildException {
+        FactorDefinition def = definition(v);
+        StorePanelSource panel = panelSource(v, def);
+        int formation = FactorEngine.latestFormation(def, panel.dates(), dateIndex);
+        if (formation < 0) {
+            return null;
+        }
+        StoredCheckpoint start = null;
+        for (StoredCheckpoint c : factors.checkpoints(v.factorId(), v.version())) {
+            if (c.processedDates() <= formation + 1 && resumable(c, def, panel.dates())) {
+                start = c;
+            }
+        }
+        return FactorEngine.holdings(def, panel, riskFree(def), signalFactors(def),
+                start == null ? null : EngineState.fromBytes(start.state()), dateIndex);
+    }
+
+    /** The grid of a version's panel. */
+    public List<LocalDate> grid(FactorVersionRecord v) throws FactorBuildException {
+        return panelSource(v, definition(v)).dates();
+    }
+
+    /** Whether the checkpoint still sits at its grid position and belongs to this definition. */
+    private static boolean resumable(StoredCheckpoint c, FactorDefinition def, List<LocalDate> dates) {
+        int k = c.processedDates();
+        if (k < 1 || k > dates.size() || !dates.get(k - 1).equals(c.lastDate())) {
+            return false;
+        }
+        try {
+            return EngineState.fromBytes(c.state()).definitionKey().equals(def.constructionKey());
+        } catch (IllegalArgumentException unreadable) {
+            return false;
+        }
+    }
+
+    private void save(FactorVersionRecord v, CheckpointedBuild.Result run, Map<String, Object> report, Replaced replaced) {
+        BuildResult result = run.build();
+        List<StoredCheckpoint> checkpoints = new ArrayList<>(run.checkpoints().size());
+        for (CheckpointedBuild.Checkpoint c : run.checkpoints()) {
+            checkpoints.add(new StoredCheckpoint(c.state().processedDates(), c.state().lastProcessedDate(), c.observations(),
+                    c.periodsWithoutReturn(), c.state().toBytes()));
+        }
+        factors.saveBuild(v.factorId(), v.version(), new StoredBuild(toStored(result.observations()),
+                toStoredTurnover(result.formations()), checkpoints, result.endState().toBytes(), JsonText.write(report)), replaced);
+    }
+
+    /** The build report: counts over the whole series, the ones before this run given. */
+    private static Map<String, Object> report(BuildResult result, int observationsBefore, int missingBefore) {
+        Map<String, Object> report = new LinkedHashMap<>();
+        report.put("observations", observationsBefore + result.observations().size());
+        report.put("periods_without_return", missingBefore + result.periodsWithoutReturn());
+        report.put("new_observations", result.observations().size());
+        report.put("new_formations", result.formations().size());
+        return report;
+    }
+
+    /** The version's panel, decoding only the columns the definition reads. */
+    private StorePanelSource panelSource(FactorVersionRecord v, FactorDefinition def) throws FactorBuildException {
+        if (v.panelId() == null) {
+            throw new FactorBuildException("factor '" + v.name() + "' has no panel to build from");
+        }
+        return new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
+    }
+
+    private ReturnSeries riskFree(FactorDefinition def) throws FactorBuildException {
+        if (def.riskFree() == null) {
+            return null;
+        }
+        FactorVersionRecord rf = factors.current(def.riskFree())
+                .orElseThrow(() -> new FactorBuildException("risk_free factor '" + def.riskFree() + "' does not exist; define and upload it first"));
+        return factors.series(rf.factorId(), rf.version(), FactorStore.Leg.SPREAD);
+    }
+
+    /** The spread series of every factor the signal recipe reads (trailing_beta's {@code against}), current versions. */
+    public Map<String, ReturnSeries> signalFactors(FactorDefinition def) throws FactorBuildException {
+        Map<String, ReturnSeries> out = new LinkedHashMap<>();
+        for (String name : def.recipeFactors()) {
+            FactorVersionRecord f = factors.current(name).orElseThrow(() -> new FactorBuildException(
+                    "the signal reads factor '" + name + "', which does not exist; define it first"));
+            out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));
+        }
+        return out;
+    }
+
+    /** Whether a definition reads the named factor: as its risk_free rate or inside its signal recipe. */
+    public static boolean dependsOn(FactorDefinition def, String factor) {
+        return def.factorsRead().contains(factor);
+    }
+
+    /**
+     * The versions reordered so that each comes after the versions in the list it reads (risk_free or signal
+     * factors), otherwise in the given order: extending a panel's factors in this order gives every dependent its
+     * dependency's new dates. Definitions cannot form cycles (refused when declared).
+     */
+    public static List<FactorVersionRecord> dependenciesFirst(List<FactorVersionRecord> versions) {
+        Map<String, FactorVersionRecord> byName = new LinkedHashMap<>();
+        versions.forEach(v -> byName.put(v.name(), v));
+        List<FactorVersionRecord> out = new ArrayList<>();
+        java.util.Set<String> placed = new java.util.HashSet<>();
+        for (FactorVersionRecord v : versions) {
+            place(v, byName, placed, new java.util.HashSet<>(), out);
+        }
+        return out;
+    }
+
+    private static void place(FactorVersionRecord v, Map<String, FactorVersionRecord> byName, java.util.Set<String> placed,
+                              java.util.Set<String> visiting, List<FactorVersionRecord> out) {
+        if (placed.contains(v.name()) || !visiting.add(v.name())) {
+            return;
+        }
+        if (!v.method().equals("external")) {
+            FactorDefinition def = definition(v);
+            for (String name : def.factorsRead()) {
+                FactorVersionRecord dependency = byName.get(name);
+                if (dependency != null) {
+                    place(dependency, byName, placed, visiting, out);
+                }
+            }
+        }
+        placed.add(v.name());
+        out.add(v);
+    }
+
+    public static FactorDefinition definition(FactorVersionRecord v) {
+        DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
+        if (!parsed.ok()) {
+            throw new IllegalStateException("stored definition of " + v.name() + " v" + v.version() + " is unreadable: " + parsed.problems());
+        }
+        return parsed.definition();
+    }
+
+    private static List<StoredReturn> toStored(List<FactorObservation> observations) {
+        List<StoredReturn> out = new ArrayList<>(observations.size());
+        for (FactorObservation o : observations) {
+            out.add(new StoredReturn(o.date(), o.spread(), o.longLeg(), o.shortLeg(), o.net()));
+        }
+        return out;
+    }
+
+    private static List<StoredTurnover> toStoredTurnover(List<Formation> formations) {
+        List<StoredTurnover> out = new ArrayList<>(formations.size());
+        for (Formation f : formations) {
+            out.add(new StoredTurnover(f.date(), f.turnover()));
+        }
+        return out;
+    }
+}

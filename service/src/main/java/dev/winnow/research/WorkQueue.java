@@ -1,0 +1,13 @@
+package dev.winnow.research;
+
+/**
+ * The background work the use cases start; the job queue implements it, so that this package needs nothing of
+ * {@code dev.winnow.jobs}.
+ */
+public interface WorkQueue {
+    /** Queues the build of one factor version; returns the job id. */
+    long queueFactorBuild(String factor, int version);
+
+    /** Queues the job that stores the loadings of every date of a panel under its config; returns the job id. */
+    long queueLoadingsHistory(String panel, long panelId);
+}
