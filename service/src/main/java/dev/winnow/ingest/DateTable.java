@@ -46,7 +46,8 @@ final class DateTable {
      */
     void absorb(DateTable other) {
         for (int k = 0; k < other.size(); k++) {
-            counts[indexOrAdd(other.date(k))] += other.count(k);
+            int i = indexOrAdd(other.date(k)); // may grow counts: index first
+            counts[i] += other.count(k);
         }
         contiguous = false;
     }

@@ -144,6 +144,11 @@ class ChunkedPanelParseTest {
     }
 
     @Test
+    void manyDatesGiveWhatTwoPassesGive() throws Exception {
+        assertSameAsTwoPasses(panel(700, 3, 7, "\n", false), Map.of(), UploadMode.REVISE);
+    }
+
+    @Test
     void quotedFieldsWithLineBreaksGiveWhatTwoPassesGive() throws Exception {
         assertSameAsTwoPasses(panel(8, 20, 3, "\n", true), Map.of(), UploadMode.REVISE);
     }
