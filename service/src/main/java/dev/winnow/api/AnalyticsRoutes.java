@@ -23,27 +23,28 @@ import java.util.Map;
 /** Summary statistics, drawdowns, rolling significance and correlations over stored series. */
 final class AnalyticsRoutes {
     private final FactorStore factors;
+    private final ServedResponses served;
 
-    AnalyticsRoutes(FactorStore factors) {
+    AnalyticsRoutes(FactorStore factors, ServedResponses served) {
         this.factors = factors;
+        this.served = served;
     }
 
     void summary(Context ctx) {
         SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
         Integer lags = lagsParam(ctx);
-        if (Responses.notModified(ctx, request.version(), false)) {
-            return;
-        }
-        SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", request.version().name());
-        out.put("version", request.version().version());
-        out.put("frequency", resolved.frequency().wireName());
-        out.put("from", resolved.series().date(0));
-        out.put("to", resolved.series().date(resolved.series().size() - 1));
-        out.putAll(summaryFields(SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags)));
-        out.putAll(costFields(request.version(), resolved));
-        Json.respond(ctx, out);
+        served.respond(ctx, Responses.dataKey(request.version()), false, () -> {
+            SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
+            Map<String, Object> out = new LinkedHashMap<>();
+            out.put("factor", request.version().name());
+            out.put("version", request.version().version());
+            out.put("frequency", resolved.frequency().wireName());
+            out.put("from", resolved.series().date(0));
+            out.put("to", resolved.series().date(resolved.series().size() - 1));
+            out.putAll(summaryFields(SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags)));
+            out.putAll(costFields(request.version(), resolved));
+            return Responses.jsonBody(out);
+        });
     }
 
     void drawdowns(Context ctx) {

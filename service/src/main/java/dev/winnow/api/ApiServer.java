@@ -1,11 +1,13 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
@@ -42,7 +44,7 @@ public final class ApiServer {
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
-                               FactorHoldings holdings) {
+                               FactorHoldings holdings, Families families) {
     }
 
     private ApiServer() {
@@ -50,17 +52,20 @@ public final class ApiServer {
 
     public static Javalin create(Dependencies d, String host, int port) {
         Authenticator auth = new Authenticator(d.tokens());
-        TokenRoutes tokens = new TokenRoutes(d.tokens(), auth);
+        TokenRoutes tokens = new TokenRoutes(d.tokens());
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
-        FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool());
-        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors());
+        ServedResponses served = new ServedResponses();
+        FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
+        AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
+        LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
         ChartRoutes charts = new ChartRoutes(d.factors());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
+        FamilyRoutes families = new FamilyRoutes(d.families());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
 
         return Javalin.create(config -> {
@@ -70,6 +75,10 @@ public final class ApiServer {
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
 
+            ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
+            config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
+            config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
+            config.routes.before(Requests::checkQueryEscapes);
             config.routes.before(auth::check);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
@@ -78,6 +87,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);
@@ -97,14 +107,22 @@ public final class ApiServer {
             config.routes.get("/v1/factors/{factor}/returns", factors::returns);
             config.routes.get("/v1/factors/{factor}/turnover", factors::turnover);
             config.routes.get("/v1/factors/{factor}/holdings", holdings::get);
+            config.routes.put("/v1/families/{family}", families::declare);
+            config.routes.get("/v1/families", families::list);
+            config.routes.get("/v1/families/{family}", families::get);
+            config.routes.delete("/v1/families/{family}", families::delete);
             config.routes.get("/v1/factors/{factor}/summary", analytics::summary);
             config.routes.get("/v1/factors/{factor}/drawdowns", analytics::drawdowns);
             config.routes.get("/v1/factors/{factor}/significance", analytics::significance);
             config.routes.get("/v1/correlations", analytics::correlations);
+            config.routes.get("/v1/returns", library::returns);
+            config.routes.get("/v1/covariance", library::covariance);
             config.routes.get("/v1/correlations/rolling", analytics::rollingCorrelation);
             config.routes.get("/v1/factors/{factor}/charts/cumulative", charts::cumulative);
             config.routes.get("/v1/factors/{factor}/charts/drawdowns", charts::drawdowns);
             config.routes.get("/v1/factors/{factor}/charts/significance", charts::significance);
+            config.routes.get("/v1/factors/{factor}/charts/portfolios", charts::portfolios);
+            config.routes.get("/v1/factors/{factor}/charts/ic", charts::ic);
             config.routes.get("/v1/charts/correlations", charts::correlations);
             config.routes.get("/v1/evidence", evidence::table);
             config.routes.get("/v1/factors/{factor}/evidence", evidence::factor);
@@ -114,6 +132,7 @@ public final class ApiServer {
             config.routes.get("/v1/loadings", loadings::get);
             config.routes.get("/v1/loadings/{security}", loadings::securityHistory);
             config.routes.post("/v1/exposures", loadings::exposures);
+            config.routes.post("/v1/risk", library::risk);
             config.routes.put("/v1/panels/{panel}/loadings-config", loadings::putConfig);
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
@@ -137,6 +156,8 @@ public final class ApiServer {
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
         config.routes.exception(SignalPreview.InvalidSignalException.class, (e, ctx) -> problem(ctx, 400, "Invalid signal",
+                e.getMessage(), messages(e.problems())));
+        config.routes.exception(Families.InvalidFamilyException.class, (e, ctx) -> problem(ctx, 400, "Invalid family",
                 e.getMessage(), messages(e.problems())));
         config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
                 e.getMessage(), java.util.List.of()));

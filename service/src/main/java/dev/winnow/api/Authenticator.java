@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.store.ChangeFeed;
 import dev.winnow.store.TokenStore;
 import dev.winnow.store.TokenStore.TokenRecord;
 import io.javalin.http.Context;
@@ -16,20 +17,44 @@ import java.util.List;
 /**
  * Bearer-token authentication. Tokens are 32 random bytes; only their SHA-256 is stored. A presented token is
  * hashed and compared with every stored hash in constant time ({@link MessageDigest#isEqual}), without early exit.
+ * The stored hashes are held in memory and reloaded whenever the token store announces a commit on its
+ * {@link ChangeFeed} (creation or revocation), so a check costs no query and a revocation holds from the next request.
  */
 public final class Authenticator {
     private static final SecureRandom RANDOM = new SecureRandom();
 
     private final TokenStore tokens;
-    private volatile List<TokenRecord> cache;
+    private volatile Known known;
+
+    /** The stored hashes as bytes, with the scope of each, at a version of the token feed. */
+    private record Known(long feedVersion, byte[][] hashes, Scope[] scopes) {
+    }
 
     public Authenticator(TokenStore tokens) {
         this.tokens = tokens;
-        refresh();
+        known();
     }
 
-    public void refresh() {
-        cache = tokens.all();
+    /**
+     * The hashes as of the token feed's current version. The version is read before the query, so a change that
+     * commits during the load leaves a newer version behind and the next check loads again.
+     */
+    private Known known() {
+        long version = tokens.feed().version(ChangeFeed.Topic.TOKENS);
+        Known k = known;
+        if (k != null && k.feedVersion() == version) {
+            return k;
+        }
+        List<TokenRecord> all = tokens.all();
+        byte[][] hashes = new byte[all.size()][];
+        Scope[] scopes = new Scope[all.size()];
+        for (int i = 0; i < hashes.length; i++) {
+            hashes[i] = all.get(i).tokenHash().getBytes(StandardCharsets.US_ASCII);
+            scopes[i] = Scope.fromWireName(all.get(i).scope());
+        }
+        Known loaded = new Known(version, hashes, scopes);
+        known = loaded;
+        return loaded;
     }
 
     public static String newToken() {
@@ -70,10 +95,11 @@ public final class Authenticator {
 
     private Scope scopeOf(String token) {
         byte[] presented = hash(token).getBytes(StandardCharsets.US_ASCII);
+        Known k = known();
         Scope found = null;
-        for (TokenRecord t : cache) {
-            if (MessageDigest.isEqual(presented, t.tokenHash().getBytes(StandardCharsets.US_ASCII))) {
-                found = Scope.fromWireName(t.scope());
+        for (int i = 0; i < k.hashes().length; i++) {
+            if (MessageDigest.isEqual(presented, k.hashes()[i])) {
+                found = k.scopes()[i];
             }
         }
         return found;
@@ -81,14 +107,14 @@ public final class Authenticator {
 
     static Scope requiredScope(Context ctx) {
         String path = ctx.path();
-        if (path.startsWith("/v1/tokens")) {
+        if (path.startsWith("/v1/tokens") || path.startsWith("/v1/admin/")) {
             return Scope.ADMIN;
         }
         HandlerType method = ctx.method();
         if (method == HandlerType.GET || method == HandlerType.HEAD) {
             return Scope.READ;
         }
-        if (method == HandlerType.POST && (path.equals("/v1/exposures") || path.equals("/v1/fama-macbeth"))) {
+        if (method == HandlerType.POST && (path.equals("/v1/exposures") || path.equals("/v1/risk") || path.equals("/v1/fama-macbeth"))) {
             return Scope.READ;
         }
         return Scope.WRITE;

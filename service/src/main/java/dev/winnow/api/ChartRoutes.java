@@ -189,6 +189,27 @@ final class ChartRoutes {
         respond(ctx, chart.render(size.frame(method + " correlations", desc, ctx.res().getHeader("ETag"))));
     }
 
+    /**
+     * Bucket portfolios (mean return and t-statistic of each bucket) are not stored by this server yet, so the chart
+     * that would draw them answers 409 after the usual checks of its parameters, saying which data it needs.
+     */
+    void portfolios(Context ctx) {
+        SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
+        Size.of(ctx);
+        throw new ApiProblem(409, "Conflict", "The portfolios chart draws the mean return and t-statistic of each bucket portfolio of '"
+                + request.version().name() + "', and this server does not compute bucket portfolios yet (there is no "
+                + "GET /v1/factors/{factor}/portfolios); use the cumulative, drawdowns or significance chart meanwhile.");
+    }
+
+    /** Information coefficients are not computed by this server yet: a 409 that says which data the chart needs. */
+    void ic(Context ctx) {
+        SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
+        Size.of(ctx);
+        throw new ApiProblem(409, "Conflict", "The ic chart draws the mean information coefficient of '" + request.version().name()
+                + "' by horizon, and this server does not compute information coefficients yet (there is no "
+                + "GET /v1/factors/{factor}/ic); use the cumulative, drawdowns or significance chart meanwhile.");
+    }
+
     private static void respond(Context ctx, String svg) {
         ctx.status(200).contentType(SVG + "; charset=utf-8").result(svg);
     }

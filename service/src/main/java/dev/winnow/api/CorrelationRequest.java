@@ -33,7 +33,7 @@ record CorrelationRequest(List<String> names, Correlations.Method method, List<F
         List<FactorVersionRecord> versions = new ArrayList<>();
         List<ReturnSeries> series = new ArrayList<>();
         for (String name : names) {
-            FactorVersionRecord v = factors.current(name)
+            FactorVersionRecord v = factors.catalog().current(name)
                     .orElseThrow(() -> ApiProblem.badRequest("Unknown factor '" + name + "' in 'factors'; GET /v1/factors lists them."));
             SeriesRequest.Resolved r = new SeriesRequest(v, FactorStore.Leg.SPREAD, from, to, target).load(factors);
             if (r.series().size() == 0) {

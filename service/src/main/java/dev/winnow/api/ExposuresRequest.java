@@ -23,31 +23,45 @@ record ExposuresRequest(PanelRecord panel, LocalDate date, List<String> securiti
         Requests.allowOnly(body, Set.of("panel", "date", "factors", "holdings", "window", "min_obs"));
         PanelRecord panel = PanelLookup.visible(panels, Requests.requiredText(body, "panel"));
         LocalDate date = Requests.dateField(body, "date");
-        JsonNode holdings = body.get("holdings");
-        if (holdings == null || !holdings.isArray() || holdings.isEmpty()) {
-            throw ApiProblem.badRequest("Field 'holdings' must be a non-empty array of {\"security\": code, \"weight\": number}.");
+        Holdings holdings = Holdings.of(body, "holdings", true);
+        return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), holdings.securities(), holdings.weights(),
+                LoadingsSettingsForms.ofBody(body));
+    }
+
+    /** A list of {@code {"security", "weight"}} objects: codes, each once, with finite weights. */
+    record Holdings(List<String> securities, double[] weights) {
+
+        /** The list in {@code field}; absent or null is an empty list unless {@code required}. */
+        static Holdings of(JsonNode body, String field, boolean required) {
+            JsonNode holdings = body.get(field);
+            if ((holdings == null || holdings.isNull()) && !required) {
+                return new Holdings(List.of(), new double[0]);
+            }
+            if (holdings == null || !holdings.isArray() || holdings.isEmpty()) {
+                throw ApiProblem.badRequest("Field '" + field + "' must be a non-empty array of {\"security\": code, \"weight\": number}.");
+            }
+            List<String> securities = new ArrayList<>();
+            double[] weights = new double[holdings.size()];
+            Set<String> seen = new HashSet<>();
+            for (int h = 0; h < holdings.size(); h++) {
+                JsonNode holding = holdings.get(h);
+                String where = field + "[" + h + "]";
+                if (!holding.isObject()) {
+                    throw ApiProblem.badRequest(where + " must be an object {\"security\": code, \"weight\": number}.");
+                }
+                Requests.allowOnly(holding, Set.of("security", "weight"));
+                String code = Requests.requiredText(holding, "security");
+                JsonNode weight = holding.get("weight");
+                if (weight == null || !weight.isNumber() || !Double.isFinite(weight.asDouble())) {
+                    throw ApiProblem.badRequest(where + ".weight must be a finite number.");
+                }
+                if (!seen.add(code)) {
+                    throw ApiProblem.badRequest("Security '" + code + "' is listed twice in '" + field + "'; give each security one weight.");
+                }
+                securities.add(code);
+                weights[h] = weight.asDouble();
+            }
+            return new Holdings(List.copyOf(securities), weights);
         }
-        List<String> securities = new ArrayList<>();
-        double[] weights = new double[holdings.size()];
-        Set<String> seen = new HashSet<>();
-        for (int h = 0; h < holdings.size(); h++) {
-            JsonNode holding = holdings.get(h);
-            String where = "holdings[" + h + "]";
-            if (!holding.isObject()) {
-                throw ApiProblem.badRequest(where + " must be an object {\"security\": code, \"weight\": number}.");
-            }
-            Requests.allowOnly(holding, Set.of("security", "weight"));
-            String code = Requests.requiredText(holding, "security");
-            JsonNode weight = holding.get("weight");
-            if (weight == null || !weight.isNumber() || !Double.isFinite(weight.asDouble())) {
-                throw ApiProblem.badRequest(where + ".weight must be a finite number.");
-            }
-            if (!seen.add(code)) {
-                throw ApiProblem.badRequest("Security '" + code + "' is held twice; give each security one holding.");
-            }
-            securities.add(code);
-            weights[h] = weight.asDouble();
-        }
-        return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), securities, weights, LoadingsSettingsForms.ofBody(body));
     }
 }

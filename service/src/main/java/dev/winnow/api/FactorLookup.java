@@ -4,7 +4,7 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
-/** Finds the factor version a request names: {@code ?version=} or the current one. */
+/** Finds the factor version a request names: {@code ?version=} or the current one, from the in-memory catalog. */
 final class FactorLookup {
     private FactorLookup() {
     }
@@ -19,12 +19,12 @@ final class FactorLookup {
      */
     static FactorVersionRecord version(Context ctx, FactorStore factors, String name, int unknownStatus) {
         Integer version = Requests.intParam(ctx, "version", 1, Integer.MAX_VALUE);
-        FactorVersionRecord current = factors.current(name)
+        FactorVersionRecord current = factors.catalog().current(name)
                 .orElseThrow(() -> unknown(unknownStatus, "No factor '" + name + "'; GET /v1/factors lists them."));
         if (version == null || version == current.version()) {
             return current;
         }
-        return factors.version(name, version)
+        return factors.catalog().version(name, version)
                 .orElseThrow(() -> unknown(unknownStatus, "Factor '" + name + "' has no version " + version
                         + "; its versions run from 1 to " + current.currentVersion() + "."));
     }

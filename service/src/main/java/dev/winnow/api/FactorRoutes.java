@@ -24,10 +24,12 @@ final class FactorRoutes {
     private final FactorDefinitions definitions;
     private final JobQueue queue;
     private final UploadSpool spool;
+    private final ServedResponses served;
 
-    FactorRoutes(FactorStore factors, FactorDefinitions definitions, JobQueue queue, UploadSpool spool) {
+    FactorRoutes(FactorStore factors, FactorDefinitions definitions, JobQueue queue, UploadSpool spool, ServedResponses served) {
         this.factors = factors;
         this.definitions = definitions;
+        this.served = served;
         this.queue = queue;
         this.spool = spool;
     }
@@ -71,7 +73,7 @@ final class FactorRoutes {
     void list(Context ctx) {
         boolean includeRetired = Requests.choiceParam(ctx, "include", List.of("retired"), "").equals("retired");
         List<Map<String, Object>> out = new ArrayList<>();
-        for (FactorVersionRecord v : factors.listCurrent(includeRetired)) {
+        for (FactorVersionRecord v : factors.catalog().listCurrent(includeRetired)) {
             out.add(view(v));
         }
         Json.respond(ctx, Map.of("factors", out));
@@ -94,24 +96,22 @@ final class FactorRoutes {
         SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
         String form = Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period");
         boolean csv = Responses.wantsCsv(ctx);
-        if (Responses.notModified(ctx, request.version(), csv)) {
-            return;
-        }
-        SeriesRequest.Resolved resolved = request.load(factors);
-        ReturnSeries series = form.equals("cumulative") ? dev.winnow.stats.FrequencyConversion.cumulative(resolved.series()) : resolved.series();
-        if (csv) {
-            Responses.csv(ctx, "date,return", series.dates(), series.values());
-            return;
-        }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", request.version().name());
-        out.put("version", request.version().version());
-        out.put("frequency", resolved.frequency().wireName());
-        out.put("leg", request.leg().name().toLowerCase(java.util.Locale.ROOT));
-        out.put("form", form);
-        out.put("dates", series.dates());
-        out.put("returns", series.values());
-        Json.respond(ctx, out);
+        served.respond(ctx, Responses.dataKey(request.version()), csv, () -> {
+            SeriesRequest.Resolved resolved = request.load(factors);
+            ReturnSeries series = form.equals("cumulative") ? dev.winnow.stats.FrequencyConversion.cumulative(resolved.series()) : resolved.series();
+            if (csv) {
+                return Responses.csvBody(Responses.csvSeries("date,return", series.dates(), series.values()));
+            }
+            Map<String, Object> out = new LinkedHashMap<>();
+            out.put("factor", request.version().name());
+            out.put("version", request.version().version());
+            out.put("frequency", resolved.frequency().wireName());
+            out.put("leg", request.leg().name().toLowerCase(java.util.Locale.ROOT));
+            out.put("form", form);
+            out.put("dates", series.dates());
+            out.put("returns", series.values());
+            return Responses.jsonBody(out);
+        });
     }
 
     void turnover(Context ctx) {

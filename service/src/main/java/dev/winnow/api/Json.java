@@ -34,12 +34,18 @@ public final class Json {
         return new ObjectMapper()
                 .registerModule(module)
                 .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
-                .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS);
+                .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS)
+                .enable(com.fasterxml.jackson.core.JsonParser.Feature.STRICT_DUPLICATE_DETECTION);
     }
 
     public static void respond(Context ctx, int status, Object body) {
+        ctx.status(status).contentType("application/json").result(bytes(body));
+    }
+
+    /** A value as UTF-8 JSON bytes. */
+    public static byte[] bytes(Object body) {
         try {
-            ctx.status(status).contentType("application/json").result(MAPPER.writeValueAsBytes(body));
+            return MAPPER.writeValueAsBytes(body);
         } catch (IOException e) {
             throw new IllegalStateException("response could not be written as JSON", e);
         }
@@ -59,6 +65,11 @@ public final class Json {
 
     /** Parses a request body as a JSON object, or answers 400 saying what is wrong with it. */
     public static JsonNode readObject(Context ctx) {
+        String type = ctx.contentType();
+        if (type != null && !isJson(type)) {
+            throw new ApiProblem(415, "Unsupported media type", "Send the body as 'Content-Type: application/json'; got '"
+                    + type + "'.");
+        }
         byte[] body = ctx.bodyAsBytes();
         if (body.length == 0) {
             throw ApiProblem.badRequest("The request body is empty; send a JSON object.");
@@ -73,6 +84,18 @@ public final class Json {
             throw ApiProblem.badRequest("The request body must be a JSON object.");
         }
         return node;
+    }
+
+    /** application/json or a +json type, parameters aside. */
+    static boolean isJson(String contentType) {
+        String media = mediaType(contentType);
+        return media.equals("application/json") || (media.startsWith("application/") && media.endsWith("+json"));
+    }
+
+    /** The media type of a Content-Type header in lower case, without parameters. */
+    static String mediaType(String contentType) {
+        int semicolon = contentType.indexOf(';');
+        return (semicolon < 0 ? contentType : contentType.substring(0, semicolon)).trim().toLowerCase(java.util.Locale.ROOT);
     }
 
     private static String firstLine(String message) {

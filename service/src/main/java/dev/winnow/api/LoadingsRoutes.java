@@ -14,7 +14,7 @@ import io.javalin.http.Context;
  * exposures, portfolio exposures, the per-panel loadings config and its history job.
  */
 public final class LoadingsRoutes {
-    private static final String SOURCE_HEADER = "Winnow-Loadings-Source";
+    static final String SOURCE_HEADER = "Winnow-Loadings-Source";
 
     private final PanelStore panels;
     private final LoadingsService service;

@@ -16,6 +16,28 @@ public final class Requests {
     private Requests() {
     }
 
+    /**
+     * Before every route: a query string with a broken percent escape (a % not followed by two hex digits) is a 400,
+     * rather than the parameter being silently dropped.
+     */
+    public static void checkQueryEscapes(Context ctx) {
+        String query = ctx.queryString();
+        if (query == null) {
+            return;
+        }
+        for (int i = query.indexOf('%'); i >= 0; i = query.indexOf('%', i + 1)) {
+            if (!isHex(query, i + 1) || !isHex(query, i + 2)) {
+                String shown = query.substring(i, Math.min(query.length(), i + 3));
+                throw ApiProblem.badRequest("The query string has a broken percent escape '" + shown + "': write % as %25, "
+                        + "and every other escape as % followed by two hex digits.");
+            }
+        }
+    }
+
+    private static boolean isHex(String s, int at) {
+        return at < s.length() && Character.digit(s.charAt(at), 16) >= 0;
+    }
+
     public static void allowOnly(JsonNode body, Set<String> allowed) {
         List<String> unknown = new ArrayList<>();
         Iterator<String> names = body.fieldNames();

@@ -11,6 +11,8 @@ import java.util.Locale;
 
 /** CSV bodies, JSON bodies written ahead, and conditional GETs. */
 final class Responses {
+    static final String CSV_TYPE = "text/csv; charset=utf-8";
+    static final String JSON_TYPE = "application/json";
     private Responses() {
     }
 
@@ -32,7 +34,7 @@ final class Responses {
      * already holds it. The ETag changes whenever the series is rebuilt, extended or revised.
      */
     static boolean notModified(Context ctx, FactorVersionRecord v, boolean csv) {
-        return tagged(ctx, v.factorId() + "." + v.version() + "." + v.dataVersion(), csv);
+        return notModified(ctx, dataKey(v), csv);
     }
 
     /**
@@ -40,13 +42,41 @@ final class Responses {
      * version, so that the ETag changes when any of them changes.
      */
     static boolean notModified(Context ctx, String dataKey, boolean csv) {
-        return tagged(ctx, shortHash(dataKey), csv);
+        String tag = etag(dataKey, ctx, csv);
+        ctx.header("ETag", tag);
+        if (matches(ctx, tag)) {
+            ctx.status(304);
+            return true;
+        }
+        return false;
     }
 
-    private static boolean tagged(Context ctx, String data, boolean csv) {
+    /** What a series answer depends on: the factor, the version and its data version (bumped by every change). */
+    static String dataKey(FactorVersionRecord v) {
+        return v.factorId() + "." + v.version() + "." + v.dataVersion();
+    }
+
+    /** The data key of an answer over several versions, in request order. */
+    static String dataKey(java.util.List<FactorVersionRecord> versions) {
+        StringBuilder key = new StringBuilder();
+        for (FactorVersionRecord v : versions) {
+            key.append(key.length() == 0 ? "" : ",").append(dataKey(v));
+        }
+        return key.toString();
+    }
+
+    /**
+     * The ETag of an answer: its data key (hashed when long) and a hash of the path, query and format, so that it
+     * changes whenever any input changes and differs between requests.
+     */
+    static String etag(String dataKey, Context ctx, boolean csv) {
         String query = ctx.queryString() == null ? "" : ctx.queryString();
-        String tag = "\"" + data + "." + shortHash(ctx.path() + "?" + query + (csv ? "#csv" : "#json")) + "\"";
-        ctx.header("ETag", tag);
+        String data = dataKey.length() <= 32 && dataKey.indexOf(',') < 0 ? dataKey : shortHash(dataKey);
+        return "\"" + data + "." + shortHash(ctx.path() + "?" + query + (csv ? "#csv" : "#json")) + "\"";
+    }
+
+    /** True when If-None-Match names {@code tag} (weak or strong) or is *. */
+    static boolean matches(Context ctx, String tag) {
         String ifNoneMatch = ctx.header("If-None-Match");
         if (ifNoneMatch != null) {
             for (String candidate : ifNoneMatch.split(",")) {
@@ -55,7 +85,6 @@ final class Responses {
                     c = c.substring(2);
                 }
                 if (c.equals(tag) || c.equals("*")) {
-                    ctx.status(304);
                     return true;
                 }
             }
@@ -74,6 +103,11 @@ final class Responses {
 
     /** A two-column CSV with full double precision (the shortest decimal that reads back to the same double). */
     static void csv(Context ctx, String header, LocalDate[] dates, double[] values) {
+        csv(ctx, csvSeries(header, dates, values));
+    }
+
+    /** The two-column CSV as text. */
+    static String csvSeries(String header, LocalDate[] dates, double[] values) {
         StringBuilder sb = new StringBuilder(dates.length * 24 + 32);
         sb.append(header).append('\n');
         for (int i = 0; i < dates.length; i++) {
@@ -83,11 +117,19 @@ final class Responses {
             }
             sb.append('\n');
         }
-        csv(ctx, sb.toString());
+        return sb.toString();
+    }
+
+    static ServedResponses.Encoded csvBody(String text) {
+        return new ServedResponses.Encoded(text.getBytes(StandardCharsets.UTF_8), CSV_TYPE);
+    }
+
+    static ServedResponses.Encoded jsonBody(Object value) {
+        return new ServedResponses.Encoded(Json.bytes(value), JSON_TYPE);
     }
 
     static void csv(Context ctx, String body) {
-        ctx.status(200).contentType("text/csv; charset=utf-8").result(body);
+        ctx.status(200).contentType(CSV_TYPE).result(body);
     }
 
     /** A body already encoded as JSON (by a streaming writer, for large answers). */

@@ -45,7 +45,7 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
 
     /** The stored series with the date range and frequency of the request applied. */
     Resolved load(FactorStore factors) {
-        ReturnSeries stored = factors.series(version.factorId(), version.version(), leg);
+        ReturnSeries stored = factors.series(version, leg);
         Frequency nativeFrequency = Frequency.fromDates(List.of(stored.dates()));
         ReturnSeries ranged = stored.between(from, to);
         if (targetFrequency == null || targetFrequency == nativeFrequency) {

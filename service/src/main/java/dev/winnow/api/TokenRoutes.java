@@ -16,11 +16,9 @@ final class TokenRoutes {
     private static final Pattern NAME = Pattern.compile("[A-Za-z0-9][A-Za-z0-9._-]{0,99}");
 
     private final TokenStore tokens;
-    private final Authenticator authenticator;
 
-    TokenRoutes(TokenStore tokens, Authenticator authenticator) {
+    TokenRoutes(TokenStore tokens) {
         this.tokens = tokens;
-        this.authenticator = authenticator;
     }
 
     void create(Context ctx) {
@@ -39,7 +37,6 @@ final class TokenRoutes {
         if (!tokens.insert(name, scope.wireName(), Authenticator.hash(token))) {
             throw new ConflictException("A token named '" + name + "' exists; revoke it first or choose another name.");
         }
-        authenticator.refresh();
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("name", name);
         out.put("scope", scope.wireName());
@@ -61,10 +58,14 @@ final class TokenRoutes {
 
     void revoke(Context ctx) {
         String name = ctx.pathParam("name");
-        if (!tokens.delete(name)) {
-            throw ApiProblem.notFound("No token named '" + name + "'; GET /v1/tokens lists them.");
+        switch (tokens.revoke(name)) {
+            case NOT_FOUND -> throw ApiProblem.notFound("No token named '" + name + "'; GET /v1/tokens lists them.");
+            case LAST_ADMIN -> throw new ApiProblem(409, "Conflict", "Token '" + name + "' is the last admin token; "
+                    + "revoking it would leave no one able to manage tokens. Create another admin token first "
+                    + "(POST /v1/tokens with scope admin), then revoke this one.");
+            case REVOKED -> {
+            }
         }
-        authenticator.refresh();
         ctx.status(204);
     }
 }

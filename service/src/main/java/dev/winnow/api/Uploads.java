@@ -27,7 +27,7 @@ final class Uploads {
 
     static Received receive(Context ctx, UploadSpool spool) {
         String contentType = ctx.contentType();
-        if (contentType == null || !contentType.toLowerCase(Locale.ROOT).startsWith("text/csv")) {
+        if (contentType == null || !Json.mediaType(contentType).equals("text/csv")) {
             throw new ApiProblem(415, "Unsupported media type", "Send the upload as 'Content-Type: text/csv' (RFC 4180, UTF-8, header row); got "
                     + (contentType == null ? "no Content-Type" : "'" + contentType + "'") + ".");
         }

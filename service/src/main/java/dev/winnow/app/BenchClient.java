@@ -51,6 +51,14 @@ public final class BenchClient {
         return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
     }
 
+    /** PUTs a variant family; returns the job id of the 202 answer. */
+    public String declareFamily(String name, String declaration) throws IOException, InterruptedException {
+        HttpRequest request = HttpRequest.newBuilder(uri("/v1/families/" + name))
+                .header("Authorization", "Bearer " + token).header("Content-Type", "application/json")
+                .PUT(HttpRequest.BodyPublishers.ofString(declaration)).build();
+        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
+    }
+
     /** A GET with the token. */
     public HttpResponse<String> get(String path) throws IOException, InterruptedException {
         return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).GET()

@@ -22,14 +22,21 @@ public final class Main {
             case "demo" -> serve(config, true);
             case "bench" -> Bench.run(args);
             default -> {
-                System.err.println("usage: java -jar winnow.jar serve | demo | bench [securities] [dates]");
+                System.err.println("usage: java -jar winnow.jar serve | demo | bench [securities] [dates] | bench serving");
                 System.exit(2);
             }
         }
     }
 
     private static void serve(Config config, boolean demo) throws Exception {
-        Winnow winnow = Winnow.start(config);
+        Winnow winnow;
+        try {
+            winnow = Winnow.start(config);
+        } catch (Winnow.DataDirectoryNotWritableException e) {
+            System.err.println("winnow: " + e.getMessage());
+            System.exit(1);
+            return;
+        }
         Runtime.getRuntime().addShutdownHook(new Thread(winnow::close, "winnow-shutdown"));
         String url = "http://" + config.bind() + ":" + winnow.port();
         if (demo) {

@@ -4,6 +4,7 @@ import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
 import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.store.ChangeFeed;
 import dev.winnow.jobs.JobHandler;
 import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
@@ -17,12 +18,15 @@ import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.research.LoadingsService;
+import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
+import dev.winnow.store.LocalChangeFeed;
 import dev.winnow.store.FactorStore;
+import dev.winnow.store.FamilyStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsStore;
@@ -50,13 +54,14 @@ public final class Winnow implements AutoCloseable {
     private final DemoLoader demo;
 
     private Winnow(Config config) throws IOException {
-        Files.createDirectories(config.dataDir());
+        requireWritable(config.dataDir());
         this.database = Database.open(config.dbUrl(), config.dbPool(), null);
         this.jdbi = database.jdbi();
-        TokenStore tokens = new TokenStore(jdbi);
+        ChangeFeed changes = new LocalChangeFeed();
+        TokenStore tokens = new TokenStore(jdbi, changes);
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
-        FactorStore factors = new FactorStore(jdbi);
+        FactorStore factors = new FactorStore(jdbi, changes);
         LoadingsStore loadings = new LoadingsStore(jdbi);
         UploadSpool spool = new UploadSpool(config.dataDir(), config.limits());
 
@@ -79,15 +84,17 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool);
+        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         this.worker = new JobWorker(jobs, handlers);
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
+        TrialLibrary library = new TrialLibrary(factors);
+        Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
-                new TrialLibrary(factors), new FactorEvidence(factors, breadth), breadth, new Themes(factors),
+                library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
                 new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
-                () -> health(jobs, spool), new FactorHoldings(builds, panels)), config.bind(), config.port());
+                () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port());
     }
 
     /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
@@ -107,6 +114,28 @@ public final class Winnow implements AutoCloseable {
         boolean workerServes = state == JobWorker.State.IDLE || state == JobWorker.State.RUNNING;
         String status = store.equals("unavailable") || !workerServes ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
         return new Health(status, store, state.name().toLowerCase(java.util.Locale.ROOT), queue);
+    }
+
+    /** The data directory cannot be created or written; Main prints the message as one line and exits 1. */
+    public static final class DataDirectoryNotWritableException extends IllegalStateException {
+        DataDirectoryNotWritableException(String message) {
+            super(message);
+        }
+    }
+
+    /** Creates the data directory if needed and proves it can be written, before the store opens there. */
+    private static void requireWritable(java.nio.file.Path dir) {
+        try {
+            Files.createDirectories(dir);
+            java.nio.file.Path probe = Files.createTempFile(dir, ".write-check", ".tmp");
+            Files.delete(probe);
+        } catch (IOException | SecurityException e) {
+            String why = e instanceof java.nio.file.AccessDeniedException ? "permission denied"
+                    : e instanceof java.nio.file.FileSystemException fse && fse.getReason() != null ? fse.getReason()
+                    : e.getClass().getSimpleName();
+            throw new DataDirectoryNotWritableException("cannot write to the data directory " + dir + " (" + why
+                    + "); set WINNOW_DATA_DIR to a directory this user can write");
+        }
     }
 
     public static Winnow start(Config config) throws IOException {
@@ -139,6 +168,13 @@ public final class Winnow implements AutoCloseable {
         for (JobStore.JobRecord job : jobs.queued(JobKinds.FACTOR_BUILD)) {
             Map<String, Object> params = JsonText.readMap(job.params());
             queued.add(params.get("factor") + "#" + params.get("version"));
+        }
+        for (JobStore.JobRecord job : jobs.queued(JobKinds.FAMILY_BUILD)) {
+            @SuppressWarnings("unchecked")
+            java.util.List<Map<String, Object>> versions = (java.util.List<Map<String, Object>>) JsonText.readMap(job.params()).get("versions");
+            for (Map<String, Object> v : versions) {
+                queued.add(v.get("factor") + "#" + v.get("version"));
+            }
         }
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {

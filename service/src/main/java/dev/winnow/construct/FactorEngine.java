@@ -100,6 +100,108 @@ public final class FactorEngine {
         return -1;
     }
 
+    /** One factor of {@link #buildTogether}: its definition and the series it reads. */
+    public record Member(FactorDefinition definition, ReturnSeries riskFree, Map<String, ReturnSeries> signalFactors) {
+    }
+
+    /**
+     * Builds several factors on the same panel from scratch in one pass over it: each cross-section is read once and
+     * each distinct signal recipe is evaluated once for all the factors that use it, at each grid date. Each result
+     * (series, formations, end state, and the checkpoints every {@code segmentDates} grid dates) is the same, bit for
+     * bit, as {@link CheckpointedBuild#run} of that factor alone.
+     *
+     * @param progress called with the number of grid dates processed after each one (may be null)
+     */
+    public static List<CheckpointedBuild.Result> buildTogether(List<Member> members, PanelSource panel, int segmentDates,
+                                                               java.util.function.IntConsumer progress) {
+        if (segmentDates < 1) {
+            throw new IllegalArgumentException("checkpoint segments need at least 1 grid date, got " + segmentDates);
+        }
+        List<LocalDate> dates = panel.dates();
+        int maxLag = 1;
+        Map<String, ReturnSeries> factors = new HashMap<>();
+        for (Member m : members) {
+            FactorDefinition def = m.definition();
+            DefinitionValidator.requireBuildable(def);
+            if ((def.riskFree() == null) != (m.riskFree() == null)) {
+                throw new IllegalArgumentException("pass the risk-free series exactly when the definition names one");
+            }
+            maxLag = Math.max(maxLag, def.effectiveLag());
+            factors.putAll(m.signalFactors());
+        }
+        Map<Recipe, SignalEvaluator> pool = new java.util.LinkedHashMap<>();
+        for (Member m : members) {
+            FactorDefinition def = m.definition();
+            for (Recipe r : new Recipe[] {def.signal(), def.control() == null ? null : def.control().signal()}) {
+                if (r != null && !pool.containsKey(r)) {
+                    pool.put(r, new SignalEvaluator(r, factors, maxLag - 1));
+                }
+            }
+        }
+        CurrentRows source = new CurrentRows(panel);
+        List<Run> runs = new ArrayList<>();
+        List<List<CheckpointedBuild.Checkpoint>> checkpoints = new ArrayList<>();
+        for (Member m : members) {
+            Run run = new Run(m.definition(), source, dates, m.riskFree(), m.signalFactors(), null, pool);
+            run.prime();
+            runs.add(run);
+            checkpoints.add(new ArrayList<>());
+        }
+        for (int t = 0; t < dates.size(); t++) {
+            CrossSection rows = panel.crossSection(t);
+            source.set(t, rows);
+            for (int i = 0; i < runs.size(); i++) {
+                Run run = runs.get(i);
+                run.step(t);
+                if ((t + 1) % segmentDates == 0) {
+                    checkpoints.get(i).add(new CheckpointedBuild.Checkpoint(run.stateAfter(t), run.observations.size(),
+                            run.withoutReturn));
+                }
+            }
+            // after the formations, which read signals up to t - 1, as a single build offers them
+            for (SignalEvaluator e : pool.values()) {
+                e.offer(t, rows);
+            }
+            if (progress != null) {
+                progress.accept(t + 1);
+            }
+        }
+        List<CheckpointedBuild.Result> out = new ArrayList<>();
+        for (int i = 0; i < runs.size(); i++) {
+            Run run = runs.get(i);
+            BuildResult build = new BuildResult(run.observations, run.formations, run.stateAfter(dates.size() - 1),
+                    run.withoutReturn);
+            out.add(new CheckpointedBuild.Result(build, checkpoints.get(i)));
+        }
+        return out;
+    }
+
+    /** The panel with the cross-section being processed held, so that every factor of a shared pass reads it once. */
+    private static final class CurrentRows implements PanelSource {
+        private final PanelSource panel;
+        private int index = -1;
+        private CrossSection rows;
+
+        CurrentRows(PanelSource panel) {
+            this.panel = panel;
+        }
+
+        void set(int i, CrossSection r) {
+            index = i;
+            rows = r;
+        }
+
+        @Override
+        public List<LocalDate> dates() {
+            return panel.dates();
+        }
+
+        @Override
+        public CrossSection crossSection(int i) {
+            return i == index ? rows : panel.crossSection(i);
+        }
+    }
+
     private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
         if (!state.definitionKey().equals(def.constructionKey())) {
             throw new IllegalArgumentException("resume state was built for another definition; rebuild from scratch");
@@ -121,6 +223,7 @@ public final class FactorEngine {
         private final int lag;
         private final SignalEvaluator signal;
         private final SignalEvaluator control;
+        private final boolean shared;
         private final double costRate;
         private final String key;
         private final int start;
@@ -131,14 +234,23 @@ public final class FactorEngine {
 
         Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
             Map<String, ReturnSeries> signalFactors, EngineState resume) {
+            this(def, panel, dates, riskFree, signalFactors, resume, null);
+        }
+
+        /** With {@code sharedSignals}, the signal evaluators come from that pool, which its owner feeds. */
+        Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
+            Map<String, ReturnSeries> signalFactors, EngineState resume, Map<Recipe, SignalEvaluator> sharedSignals) {
             this.panel = panel;
             this.dates = dates;
             this.riskFree = riskFree == null ? null : byDate(riskFree);
             this.rule = PortfolioRule.of(def);
             this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
             this.lag = def.effectiveLag();
-            this.signal = def.signal() == null ? null : new SignalEvaluator(def.signal(), signalFactors, lag - 1);
-            this.control = def.control() == null ? null : new SignalEvaluator(def.control().signal(), signalFactors, lag - 1);
+            this.shared = sharedSignals != null;
+            this.signal = def.signal() == null ? null : shared ? sharedSignals.get(def.signal())
+                    : new SignalEvaluator(def.signal(), signalFactors, lag - 1);
+            this.control = def.control() == null ? null : shared ? sharedSignals.get(def.control().signal())
+                    : new SignalEvaluator(def.control().signal(), signalFactors, lag - 1);
             this.costRate = def.effectiveCostBps() / 10_000.0;
             this.key = def.constructionKey();
             this.start = resume == null ? 0 : resume.processedDates();
@@ -158,6 +270,11 @@ public final class FactorEngine {
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
             return new BuildResult(observations, formations, end, withoutReturn);
+        }
+
+        /** The state after processing grid dates 0..t (t = -1: none). */
+        EngineState stateAfter(int t) {
+            return new EngineState(key, t + 1, t < 0 ? null : dates.get(t), book);
         }
 
         /** Re-reads the dates before the start that the lag and the signals' lookback need. */
@@ -236,6 +353,9 @@ public final class FactorEngine {
 
         /** Hands a cross-section to the signal evaluators; earlier offers may start anywhere before it. */
         private void offer(int index, CrossSection rows) {
+            if (shared) {
+                return;
+            }
             if (signal != null && index >= start - lag - signal.lookback()) {
                 signal.offer(index, rows);
             }

@@ -43,6 +43,18 @@ final class Cells {
         return true;
     }
 
+    /** The length in UTF-16 code units of well-formed UTF-8 bytes [s, e): a 4-byte sequence counts 2. */
+    static int utf16Length(byte[] b, int s, int e) {
+        int units = 0;
+        for (int i = s; i < e; i++) {
+            int c = b[i] & 0xff;
+            if (c < 0x80 || c >= 0xc0) {
+                units += c >= 0xf0 ? 2 : 1;
+            }
+        }
+        return units;
+    }
+
     /** True when bytes [s, e) are well-formed UTF-8. */
     static boolean isValidUtf8(byte[] b, int s, int e) {
         int i = s;

@@ -106,6 +106,15 @@ final class Messages {
                 + firstLine + "): keep one row per security and date";
     }
 
+    static String tooManyRowsAtDate(LocalDate date, int limit) {
+        return "date " + date + " has more than " + limit + " rows, the most one date may hold: split the "
+                + "securities of one date into several panels";
+    }
+
+    static String tooLong(String column, int length, int limit) {
+        return column + " is " + length + " characters long, longer than the " + limit + " allowed: shorten it";
+    }
+
     static String duplicateDate(LocalDate date, long firstLine) {
         return "date " + date + " appears more than once (first at line " + firstLine + "): keep one row per date";
     }

@@ -1,5 +1,7 @@
 package dev.winnow.ingest;
 
+import dev.winnow.store.Limits;
+
 import java.io.EOFException;
 import java.io.IOException;
 import java.io.InputStream;
@@ -207,6 +209,18 @@ final class PanelFirstPass {
             fail(PanelUpload.SECURITY, Messages.emptyCell(PanelUpload.SECURITY, "ACME01"));
         } else if (!Cells.isValidUtf8(b, s, e)) {
             fail(PanelUpload.SECURITY, Messages.notUtf8());
+        } else {
+            checkLength(b, s, e, PanelUpload.SECURITY, Limits.MAX_SECURITY_CHARS);
+        }
+    }
+
+    /** A text cell longer than the limit (in UTF-16 code units, as the store counts) is an error of its row. */
+    private void checkLength(byte[] b, int s, int e, String column, int limit) {
+        if (e - s > limit) {
+            int length = Cells.utf16Length(b, s, e);
+            if (length > limit) {
+                fail(column, Messages.tooLong(column, length, limit));
+            }
         }
     }
 
@@ -238,6 +252,8 @@ final class PanelFirstPass {
         column.tally.text();
         if (!Cells.isValidUtf8(b, s, e)) {
             fail(column.name, Messages.notUtf8());
+        } else {
+            checkLength(b, s, e, column.name, Limits.MAX_LABEL_CHARS);
         }
         if (!column.sawText) {
             NumberCell.Kind kind = number.read(b, s, e);
@@ -265,6 +281,10 @@ final class PanelFirstPass {
                 column.tally.text();
                 if (!Cells.isValidUtf8(csv.buffer(), csv.start(column.field), csv.end(column.field))) {
                     fail(column.name, Messages.notUtf8());
+                } else {
+                    byte[] b = csv.buffer();
+                    int s = Cells.trimStart(b, csv.start(column.field), csv.end(column.field));
+                    checkLength(b, s, Cells.trimEnd(b, s, csv.end(column.field)), column.name, Limits.MAX_LABEL_CHARS);
                 }
             }
         }

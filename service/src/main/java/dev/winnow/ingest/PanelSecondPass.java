@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.construct.CrossSection;
+import dev.winnow.store.Limits;
 import java.io.IOException;
 import java.io.InputStream;
 import java.time.LocalDate;
@@ -48,6 +49,8 @@ final class PanelSecondPass {
     private long rowsEmitted;
     private long duplicateRows;
     private boolean emitting = true;
+    /** Set by a problem that ends the parse (a date past {@link Limits#MAX_ROWS_PER_DATE}): no more reads. */
+    private boolean stopped;
 
     PanelSecondPass(PanelUpload upload, PanelLayout layout, ColumnType[] extraTypes, DateTable dates, long rowsRead,
                     SecurityIds securityIds, CrossSectionSink sink, ErrorCollector errors, ProgressMeter meter) {
@@ -97,7 +100,7 @@ final class PanelSecondPass {
     /** Runs the scans of the plan over the progress fractions [start, 1). */
     void run(List<int[]> plan, double start) throws IOException, SinkException {
         double share = (1 - start) / plan.size();
-        for (int r = 0; r < plan.size(); r++) {
+        for (int r = 0; r < plan.size() && !stopped; r++) {
             try (InputStream in = meter.open(upload.file(), upload.gzip(), start + r * share, share)) {
                 scan(new CsvTokenizer(in), plan.get(r));
             }
@@ -142,10 +145,14 @@ final class PanelSecondPass {
             }
             DateBlock block = blocks[slot];
             if (block == null) {
-                block = new DateBlock(dates.count(dateIndex), numberFields.length, labelFields.length);
+                block = new DateBlock(Math.min(dates.count(dateIndex), Limits.MAX_ROWS_PER_DATE), numberFields.length, labelFields.length);
                 blocks[slot] = block;
             }
             if (block.isFull()) {
+                if (dates.count(dateIndex) > Limits.MAX_ROWS_PER_DATE) {
+                    tooManyRows(dateIndex, block, csv.recordLine());
+                    return;
+                }
                 throw fileChanged();
             }
             addRow(csv, block);
@@ -159,6 +166,28 @@ final class PanelSecondPass {
         if (nextToEmit != range.length) {
             throw fileChanged();
         }
+    }
+
+    /**
+     * A date with more rows than one date may hold: the rows held so far are checked for repeated securities (an
+     * upload of one row repeated gets its line-numbered duplicate errors), else the date is reported as too large.
+     * Either way the parse ends here, so memory stays bounded by the limit.
+     */
+    private void tooManyRows(int dateIndex, DateBlock block, long line) {
+        LocalDate date = dates.date(dateIndex);
+        CrossSection held = block.toCrossSection(date, numberNames, labelNames, (securityId, firstLine, dupLine) -> {
+            duplicateRows++;
+            if (errors.keeps(dupLine)) {
+                errors.add(dupLine, PanelUpload.SECURITY, Messages.duplicateSecurity(codeOf(securityId), date, firstLine));
+            } else {
+                errors.countOnly(1);
+            }
+        });
+        if (held != null) {
+            errors.add(line, PanelUpload.DATE, Messages.tooManyRowsAtDate(date, Limits.MAX_ROWS_PER_DATE));
+        }
+        emitting = false;
+        stopped = true;
     }
 
     private void addRow(CsvTokenizer csv, DateBlock block) throws SinkException {

@@ -38,6 +38,14 @@ public final class JobQueue implements WorkQueue {
     }
 
     @Override
+    public long queueFamilyBuild(String family, java.util.List<Map<String, Object>> versions) {
+        Map<String, Object> params = new LinkedHashMap<>();
+        params.put("family", family);
+        params.put("versions", versions);
+        return enqueue(JobKinds.FAMILY_BUILD, params);
+    }
+
+    @Override
     public long queueLoadingsHistory(String panel, long panelId) {
         return enqueue(LoadingsJobs.KIND, LoadingsJobs.params(panel, panelId));
     }

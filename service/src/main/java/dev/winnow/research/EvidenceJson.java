@@ -23,6 +23,7 @@ public final class EvidenceJson {
         out.put("retired", trial.version().retired());
         out.put("status", trial.version().status());
         out.put("theme", trial.theme());
+        out.put("family", trial.version().family());
         out.put("n", s.n());
         out.put("mean", s.mean());
         out.put("nw_t_stat", s.nwTStat());

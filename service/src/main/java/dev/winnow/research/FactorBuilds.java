@@ -75,6 +75,61 @@ public final class FactorBuilds {
         return report;
     }
 
+    /** What {@link #rebuildTogether} did with one version: its build report, or why it failed. */
+    public record TogetherOutcome(FactorVersionRecord version, Map<String, Object> report, String error) {
+    }
+
+    /**
+     * Rebuilds several versions from scratch sharing the passes over their panels: the versions of one panel are
+     * built in one pass that reads each cross-section once and evaluates each distinct signal recipe once
+     * ({@link FactorEngine#buildTogether}); each result is the same as {@link #rebuild} of that version alone. A version
+     * whose inputs are missing (its panel, risk-free or signal factor) fails alone.
+     *
+     * @param progress called with the fraction (0..1] of grid dates processed over all panels
+     */
+    public List<TogetherOutcome> rebuildTogether(List<FactorVersionRecord> versions, java.util.function.DoubleConsumer progress) {
+        List<TogetherOutcome> out = new ArrayList<>();
+        Map<Long, List<FactorVersionRecord>> byPanel = new LinkedHashMap<>();
+        Map<Long, List<FactorEngine.Member>> members = new LinkedHashMap<>();
+        for (FactorVersionRecord v : versions) {
+            try {
+                FactorDefinition def = definition(v);
+                panelSource(v);
+                FactorEngine.Member m = new FactorEngine.Member(def, riskFree(def), signalFactors(def));
+                byPanel.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(v);
+                members.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(m);
+            } catch (FactorBuildException | IllegalArgumentException e) {
+                out.add(new TogetherOutcome(v, null, e.getMessage()));
+            }
+        }
+        long totalDates = 0;
+        Map<Long, StorePanelSource> sources = new LinkedHashMap<>();
+        for (Long panelId : byPanel.keySet()) {
+            StorePanelSource source = new StorePanelSource(panels, panelId);
+            sources.put(panelId, source);
+            totalDates += source.dates().size();
+        }
+        long[] done = {0};
+        long total = Math.max(1, totalDates);
+        for (Long panelId : byPanel.keySet()) {
+            long before = done[0];
+            List<CheckpointedBuild.Result> results = FactorEngine.buildTogether(members.get(panelId), sources.get(panelId),
+                    checkpointDates, t -> {
+                        if (progress != null) {
+                            progress.accept((before + t) / (double) total);
+                        }
+                    });
+            done[0] += sources.get(panelId).dates().size();
+            List<FactorVersionRecord> list = byPanel.get(panelId);
+            for (int i = 0; i < list.size(); i++) {
+                Map<String, Object> report = report(results.get(i).build(), 0, 0);
+                save(list.get(i), results.get(i), report, Replaced.EVERYTHING);
+                out.add(new TogetherOutcome(list.get(i), report, null));
+            }
+        }
+        return out;
+    }
+
     /** Extends a version over dates appended to its panel, from its stored engine state. */
     public Map<String, Object> extend(FactorVersionRecord v) throws FactorBuildException {
         byte[] stateBytes = factors.engineState(v.factorId(), v.version());

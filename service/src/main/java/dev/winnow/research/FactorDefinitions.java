@@ -53,6 +53,28 @@ public final class FactorDefinitions {
     }
 
     public Defined define(String name, JsonNode body) throws InvalidDefinitionException {
+        DefineOutcome outcome = record(name, check(name, body));
+        FactorVersionRecord v = outcome.version();
+        if (!outcome.created()) {
+            return new Defined(v, false, null);
+        }
+        if (v.method().equals(DefinitionJson.wire(Method.EXTERNAL))) {
+            factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
+            return new Defined(factors.version(name, v.version()).orElseThrow(), true, null);
+        }
+        return new Defined(v, true, queue.queueFactorBuild(name, v.version()));
+    }
+
+    /** A definition checked against its panel and the factors it reads, ready to be recorded. */
+    public record Checked(FactorDefinition definition, Long panelId) {
+    }
+
+    /** Reads and checks a definition for factor {@code name}; every problem is listed. */
+    public Checked check(String name, JsonNode body) throws InvalidDefinitionException {
+        List<String> tooLong = DefinitionTextLimits.problems(body);
+        if (!tooLong.isEmpty()) {
+            throw new InvalidDefinitionException(tooLong);
+        }
         DefinitionJson.Parsed parsed = DefinitionJson.read(body);
         if (!parsed.ok()) {
             throw new InvalidDefinitionException(parsed.problems());
@@ -84,16 +106,18 @@ public final class FactorDefinitions {
         if (!problems.isEmpty()) {
             throw new InvalidDefinitionException(problems);
         }
-        DefineOutcome outcome = factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
-        FactorVersionRecord v = outcome.version();
-        if (!outcome.created()) {
-            return new Defined(v, false, null);
+        String canonical = DefinitionJson.toCanonicalString(def);
+        if (canonical.length() > dev.winnow.store.Limits.MAX_DEFINITION_CHARS) {
+            throw new InvalidDefinitionException(List.of("the definition is " + canonical.length() + " characters long once "
+                    + "written out; at most " + dev.winnow.store.Limits.MAX_DEFINITION_CHARS + " are kept: shorten the rationale or the signal"));
         }
-        if (def.method() == Method.EXTERNAL) {
-            factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
-            return new Defined(factors.version(name, v.version()).orElseThrow(), true, null);
-        }
-        return new Defined(v, true, queue.queueFactorBuild(name, v.version()));
+        return new Checked(def, panelId);
+    }
+
+    /** Records a checked definition: a new version when it differs from the current one (no build is queued). */
+    public DefineOutcome record(String name, Checked checked) {
+        FactorDefinition def = checked.definition();
+        return factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), checked.panelId());
     }
 
     /**

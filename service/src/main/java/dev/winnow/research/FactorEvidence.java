@@ -168,11 +168,14 @@ public final class FactorEvidence {
 
     private static Map<String, Object> variants(Trial trial, Snapshot library, PeriodStatistics full, String unavailable) {
         String theme = trial.theme();
+        String family = trial.version().family();
         List<Trial> members = new ArrayList<>();
         members.add(trial);
-        if (theme != null) {
+        if (theme != null || family != null) {
             for (Trial other : library.live()) {
-                if (!other.name().equals(trial.name()) && theme.equals(other.theme()) && other.usable()) {
+                boolean related = (theme != null && theme.equals(other.theme()))
+                        || (family != null && family.equals(other.version().family()));
+                if (!other.name().equals(trial.name()) && related && other.usable()) {
                     members.add(other);
                 }
             }
@@ -193,9 +196,11 @@ public final class FactorEvidence {
         PeriodStatistics composite = members.size() < 2 ? null : PeriodStatistics.of(EqualWeightComposite.of(series));
         Map<String, Object> numbers = new LinkedHashMap<>();
         numbers.put("theme", theme);
-        numbers.put("members", theme == null ? List.of() : rows);
+        numbers.put("family", family);
+        numbers.put("members", theme == null && family == null ? List.of() : rows);
         numbers.put("composite", composite == null ? null : EvidenceJson.period(composite));
-        SectionVerdict verdict = EvidenceVerdicts.variants(theme, full.mean(), tStats, composite);
+        // a factor without a theme still has variants when it belongs to a family
+        SectionVerdict verdict = EvidenceVerdicts.variants(theme != null ? theme : family, full.mean(), tStats, composite);
         return EvidenceJson.section(numbers, verdict, unavailable);
     }
 

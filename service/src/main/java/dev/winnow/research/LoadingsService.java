@@ -9,6 +9,7 @@ import dev.winnow.construct.PortfolioExposure;
 import dev.winnow.construct.SecurityLoadings;
 import dev.winnow.construct.SecurityLoadingsHistory;
 import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.LoadingsFactors;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.LoadingsStore.LoadingsConfig;
@@ -106,6 +107,40 @@ public final class LoadingsService {
         LoadingsTable table = loadingsAt(panel, date, regression, source);
         return new Exposures(panel, date, regression.spec(),
                 PortfolioExposure.of(table, securityIds, weights), securities);
+    }
+
+    /**
+     * What a portfolio's risk needs from the loadings: the exposures of {@code weights} (as {@link #exposures}), the
+     * weights and residual volatilities of the holdings that have loadings, in holding order, and the factor
+     * versions the loadings regress on. No holding with loadings is an {@link InvalidRequestException}.
+     */
+    public record RiskInputs(Exposures exposures, double[] coveredWeights, double[] residualVols, List<FactorVersionRecord> versions) {
+    }
+
+    /** Hears the source as {@link #table} does. */
+    public RiskInputs riskInputs(PanelRecord panel, LocalDate date, List<String> securities, double[] weights, LoadingsSettings settings,
+                                 Consumer<String> source) {
+        Map<String, Integer> ids = codes(panel).byCode();
+        int[] securityIds = securities.stream().mapToInt(code -> ids.getOrDefault(code, -1)).toArray();
+        Regression regression = Regression.resolve(panel, settings, loadings, factors);
+        LoadingsTable table = loadingsAt(panel, date, regression, source);
+        PortfolioExposure exposure = PortfolioExposure.of(table, securityIds, weights);
+        if (exposure.missingHoldings().size() == securityIds.length) {
+            throw new InvalidRequestException("None of the " + securityIds.length + " securities has loadings at " + date
+                    + " (not in panel '" + panel.name() + "' then, or too few observations); nothing to measure.");
+        }
+        int covered = securityIds.length - exposure.missingHoldings().size();
+        double[] coveredWeights = new double[covered];
+        double[] residualVols = new double[covered];
+        int c = 0;
+        for (int h = 0; h < securityIds.length; h++) {
+            if (!exposure.missingHoldings().contains(h)) {
+                coveredWeights[c] = weights[h];
+                residualVols[c++] = table.residualVol()[table.rowOf(securityIds[h])];
+            }
+        }
+        return new RiskInputs(new Exposures(panel, date, regression.spec(), exposure, securities), coveredWeights, residualVols,
+                regression.versions());
     }
 
     public LoadingsConfig saveConfig(PanelRecord panel, LoadingsSettings settings) {

@@ -34,7 +34,7 @@ record CommonDates(LocalDate[] dates, double[][] values) {
         return new CommonDates(dates, values);
     }
 
-    private static LocalDate[] unionDates(List<ReturnSeries> series, DateAlignment.Union union) {
+    static LocalDate[] unionDates(List<ReturnSeries> series, DateAlignment.Union union) {
         LocalDate[] dates = new LocalDate[union.size()];
         for (int i = 0; i < series.size(); i++) {
             int[] positions = union.positions()[i];

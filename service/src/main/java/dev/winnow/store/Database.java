@@ -97,6 +97,44 @@ public final class Database implements AutoCloseable {
         return jdbi;
     }
 
+    /** What a compaction did: the store file's size before and after (null when not a local H2 file), and a note. */
+    public record Compaction(Long bytesBefore, Long bytesAfter, String note) {
+    }
+
+    /**
+     * Compacts an H2 store: {@code SHUTDOWN COMPACT} rewrites the file without the space that revisions, failed
+     * uploads and deleted rows left, then closes the database; the pool's connections are retired and the next one
+     * opens the compacted file. Requests during the compaction may answer 503. Run it from the job worker, so no job
+     * runs meanwhile. PostgreSQL reclaims space with autovacuum, so nothing is done there.
+     */
+    public Compaction compact() throws java.sql.SQLException {
+        if (dialect != Dialect.H2) {
+            return new Compaction(null, null, "PostgreSQL reclaims space with autovacuum; nothing to do");
+        }
+        java.nio.file.Path file = H2Url.storeFile(pool.getJdbcUrl()).orElse(null);
+        Long before = size(file);
+        try (java.sql.Connection c = pool.getConnection(); java.sql.Statement s = c.createStatement()) {
+            s.execute("SHUTDOWN COMPACT");
+        } catch (java.sql.SQLException closedUnderUs) {
+            if (closedUnderUs.getErrorCode() != 90098 && closedUnderUs.getErrorCode() != 90121) {
+                throw closedUnderUs;
+            }
+        }
+        if (pool.getHikariPoolMXBean() != null) {
+            pool.getHikariPoolMXBean().softEvictConnections();
+        }
+        jdbi.withHandle(h -> h.createQuery("SELECT COUNT(*) FROM jobs").mapTo(Long.class).one());
+        return new Compaction(before, size(file), "compacted");
+    }
+
+    private static Long size(java.nio.file.Path file) {
+        try {
+            return file == null ? null : java.nio.file.Files.size(file);
+        } catch (java.io.IOException e) {
+            return null;
+        }
+    }
+
     public Dialect dialect() {
         return dialect;
     }

@@ -21,11 +21,13 @@ import java.util.Optional;
 /** Factors, their immutable versions and each version's series. */
 public final class FactorStore {
     private static final String VERSION_COLUMNS = "f.id, f.name, v.version, f.current_version, v.definition, v.method, v.panel_id, "
-            + "v.status, v.data_version, v.build_report, v.created_at, v.built_at, f.retired_at";
+            + "v.status, v.data_version, v.build_report, v.created_at, v.built_at, f.retired_at, "
+            + "(SELECT fam.name FROM families fam WHERE fam.id = f.family_id)";
     private static final RowMapper<FactorVersionRecord> VERSION = (rs, ctx) -> new FactorVersionRecord(
             rs.getLong(1), rs.getString(2), rs.getInt(3), rs.getInt(4), rs.getString(5), rs.getString(6),
             (Long) rs.getObject(7, Long.class), rs.getString(8), rs.getLong(9), rs.getString(10),
-            rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class));
+            rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class),
+            rs.getString(14));
 
     private static final String CHECKPOINT_COLUMNS = "processed_dates, last_date, observations, periods_without_return, state";
     private static final RowMapper<StoredCheckpoint> CHECKPOINT = (rs, ctx) -> new StoredCheckpoint(
@@ -52,13 +54,34 @@ public final class FactorStore {
     private record CachedSeries(long dataVersion, ReturnSeries series) {
     }
 
+    private final ChangeFeed feed;
+    private final FactorCatalog catalog;
+
+    /** A store whose commits are announced on a feed of its own (one process, tests). */
     public FactorStore(Jdbi jdbi) {
+        this(jdbi, new LocalChangeFeed());
+    }
+
+    /** A store that announces every commit on {@code feed}, which the read caches of the API watch. */
+    public FactorStore(Jdbi jdbi, ChangeFeed feed) {
         this.jdbi = jdbi;
+        this.feed = feed;
+        this.catalog = new FactorCatalog(this, feed);
+    }
+
+    /** Factor versions in memory, for the read paths (see {@link FactorCatalog}). */
+    public FactorCatalog catalog() {
+        return catalog;
+    }
+
+    private void announce() {
+        feed.committed(ChangeFeed.Topic.FACTORS);
     }
 
     public record FactorVersionRecord(long factorId, String name, int version, int currentVersion, String definitionJson,
                                       String method, Long panelId, String status, long dataVersion, String buildReport,
-                                      OffsetDateTime createdAt, OffsetDateTime builtAt, OffsetDateTime retiredAt) {
+                                      OffsetDateTime createdAt, OffsetDateTime builtAt, OffsetDateTime retiredAt,
+                                      String family) {
         public boolean retired() {
             return retiredAt != null;
         }
@@ -131,9 +154,62 @@ public final class FactorStore {
      * Re-defining a retired factor brings it back.
      */
     public DefineOutcome define(String name, String definitionJson, String method, Long panelId) {
+        DefineOutcome outcome = defineWithRetries(name, definitionJson, method, panelId);
+        if (outcome.created()) {
+            announce();
+        }
+        return outcome;
+    }
+
+    private DefineOutcome defineWithRetries(String name, String definitionJson, String method, Long panelId) {
+        // Concurrent definitions of one factor: in this process they take turns on a lock per name; across
+        // processes the factor row is locked (FOR UPDATE) and a transaction that lost a race on the unique name or
+        // the (factor, version) key is run again, so versions count up without gaps or duplicates.
+        synchronized (DEFINE_LOCKS[Math.floorMod(name.hashCode(), DEFINE_LOCKS.length)]) {
+            for (int attempt = 1; ; attempt++) {
+                try {
+                    return defineOnce(name, definitionJson, method, panelId);
+                } catch (RuntimeException e) {
+                    if (attempt >= 20 || !lostARace(e)) {
+                        throw e;
+                    }
+                    try {
+                        Thread.sleep(java.util.concurrent.ThreadLocalRandom.current().nextLong(5, 25L * attempt));
+                    } catch (InterruptedException stop) {
+                        Thread.currentThread().interrupt();
+                        throw e;
+                    }
+                }
+            }
+        }
+    }
+
+    private static final Object[] DEFINE_LOCKS = new Object[64];
+
+    static {
+        for (int i = 0; i < DEFINE_LOCKS.length; i++) {
+            DEFINE_LOCKS[i] = new Object();
+        }
+    }
+
+    /** A unique-key violation, a serialization failure, a deadlock or a lock timeout: worth another try. */
+    private static boolean lostARace(Throwable e) {
+        for (Throwable t = e; t != null; t = t.getCause() == t ? null : t.getCause()) {
+            if (t instanceof java.sql.SQLException sql && sql.getSQLState() != null) {
+                String state = sql.getSQLState();
+                if (state.equals("23505") || state.equals("40001") || state.equals("40P01") || state.equals("HYT00")
+                        || state.equals("55P03")) {
+                    return true;
+                }
+            }
+        }
+        return false;
+    }
+
+    private DefineOutcome defineOnce(String name, String definitionJson, String method, Long panelId) {
         return jdbi.inTransaction(h -> {
             OffsetDateTime now = OffsetDateTime.now(ZoneOffset.UTC);
-            Optional<Long> existing = h.createQuery("SELECT id FROM factors WHERE name = :n").bind("n", name).mapTo(Long.class).findOne();
+            Optional<Long> existing = h.createQuery("SELECT id FROM factors WHERE name = :n FOR UPDATE").bind("n", name).mapTo(Long.class).findOne();
             long factorId;
             int version;
             if (existing.isEmpty()) {
@@ -167,9 +243,25 @@ public final class FactorStore {
     public record DefineOutcome(FactorVersionRecord version, boolean created) {
     }
 
+    /** Makes an existing version the factor's current one (a family variant whose definition returned to it). */
+    public void makeCurrent(long factorId, int version) {
+        jdbi.useHandle(h -> h.createUpdate("UPDATE factors SET current_version = :v WHERE id = :f")
+                .bind("v", version).bind("f", factorId).execute());
+    }
+
+    /** Brings a retired factor back with its current version (a re-declared family variant whose definition is unchanged). */
+    public boolean unretire(String name) {
+        return jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = NULL WHERE name = :n AND retired_at IS NOT NULL")
+                .bind("n", name).execute()) > 0;
+    }
+
     public boolean retire(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = :now WHERE name = :n AND retired_at IS NULL")
+        boolean retired = jdbi.withHandle(h -> h.createUpdate("UPDATE factors SET retired_at = :now WHERE name = :n AND retired_at IS NULL")
                 .bind("n", name).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).execute()) > 0;
+        if (retired) {
+            announce();
+        }
+        return retired;
     }
 
     /**
@@ -257,6 +349,7 @@ public final class FactorStore {
                     .bind("s", build.engineState()).bind("r", build.reportJson()).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .bind("f", factorId).bind("v", version).execute();
         });
+        announce();
     }
 
     /** Deletes a version's rows of a table: all of them, those dated on or after {@code from}, or none (from null). */
@@ -308,6 +401,7 @@ public final class FactorStore {
                             + "WHERE factor_id = :f AND version = :v")
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
         });
+        announce();
     }
 
     private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
@@ -332,6 +426,7 @@ public final class FactorStore {
         jdbi.useHandle(h -> h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
                         + "WHERE factor_id = :f AND version = :v")
                 .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute());
+        announce();
     }
 
     public byte[] engineState(long factorId, int version) {
@@ -343,32 +438,47 @@ public final class FactorStore {
     public ReturnSeries series(long factorId, int version, Leg leg) {
         long dataVersion = jdbi.withHandle(h -> h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
                 .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L));
+        return series(factorId, version, leg, dataVersion);
+    }
+
+    /**
+     * The same for a version whose data version the caller already knows (from the {@link #catalog()}): no query
+     * when the series of that data version is held in memory.
+     */
+    public ReturnSeries series(FactorVersionRecord v, Leg leg) {
+        return series(v.factorId(), v.version(), leg, v.dataVersion());
+    }
+
+    private ReturnSeries series(long factorId, int version, Leg leg, long dataVersion) {
         SeriesKey key = new SeriesKey(factorId, version, leg);
         CachedSeries cached = recentSeries.get(key);
         if (cached != null && cached.dataVersion() == dataVersion) {
             return cached.series();
         }
-        ReturnSeries series = readSeries(factorId, version, leg);
-        recentSeries.put(key, new CachedSeries(dataVersion, series));
-        return series;
+        CachedSeries read = jdbi.inTransaction(h -> readSeries(h, factorId, version, leg));
+        recentSeries.put(key, read);
+        return read.series();
     }
 
-    private ReturnSeries readSeries(long factorId, int version, Leg leg) {
+    /** The series with the data version it was read at, in one transaction, so the label always fits the rows. */
+    private static CachedSeries readSeries(Handle h, long factorId, int version, Leg leg) {
+        long dataVersion = h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
+                .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L);
         List<LocalDate> dates = new ArrayList<>();
         List<Double> values = new ArrayList<>();
-        jdbi.useHandle(h -> h.createQuery("SELECT obs_date, " + leg.column + " FROM factor_returns WHERE factor_id = :f AND version = :v "
+        h.createQuery("SELECT obs_date, " + leg.column + " FROM factor_returns WHERE factor_id = :f AND version = :v "
                         + "AND " + leg.column + " IS NOT NULL ORDER BY obs_date")
                 .bind("f", factorId).bind("v", version)
                 .map((rs, ctx) -> readPoint(rs))
                 .forEach(p -> {
                     dates.add(p.date());
                     values.add(p.value());
-                }));
+                });
         double[] v = new double[values.size()];
         for (int i = 0; i < v.length; i++) {
             v[i] = values.get(i);
         }
-        return new ReturnSeries(dates.toArray(new LocalDate[0]), v);
+        return new CachedSeries(dataVersion, new ReturnSeries(dates.toArray(new LocalDate[0]), v));
     }
 
     private record Point(LocalDate date, double value) {

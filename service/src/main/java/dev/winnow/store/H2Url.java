@@ -21,6 +21,20 @@ public final class H2Url {
         return url.regionMatches(true, 0, PREFIX, 0, PREFIX.length());
     }
 
+    /** The store file of an embedded H2 file URL ({@code name.mv.db}), or empty for other URLs. */
+    public static java.util.Optional<java.nio.file.Path> storeFile(String url) {
+        if (!isH2(url)) {
+            return java.util.Optional.empty();
+        }
+        String location = url.split(";", 2)[0].substring(PREFIX.length());
+        if (location.regionMatches(true, 0, "file:", 0, 5)) {
+            location = location.substring(5);
+        } else if (location.contains(":") && !location.matches("^[A-Za-z]:[\\\\/].*")) {
+            return java.util.Optional.empty(); // tcp:, ssl:, mem:, zip: ...
+        }
+        return java.util.Optional.of(java.nio.file.Path.of(location + ".mv.db"));
+    }
+
     /** The URL with WRITE_DELAY=0; throws IllegalArgumentException naming the setting to change. */
     public static String durable(String url) {
         if (!isH2(url)) {

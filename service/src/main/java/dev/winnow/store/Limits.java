@@ -25,6 +25,8 @@ public record Limits(long maxUploadBytes, long minFreeBytes) {
     public static final int MAX_RATIONALE_CHARS = 10_000;
     /** Longest other text field of a factor definition (theme, column names, label values), in characters. */
     public static final int MAX_DEFINITION_TEXT_CHARS = 200;
+    /** Longest canonical factor definition, in characters (the width of the stored definition). */
+    public static final int MAX_DEFINITION_CHARS = 100_000;
     /** Largest JSON request body, in bytes. */
     public static final int MAX_JSON_BODY_BYTES = 1_000_000;
 

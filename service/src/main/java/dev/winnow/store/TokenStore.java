@@ -9,9 +9,16 @@ import java.util.List;
 /** API tokens: only SHA-256 hashes are stored. */
 public final class TokenStore {
     private final Jdbi jdbi;
+    private final ChangeFeed feed;
 
-    public TokenStore(Jdbi jdbi) {
+    public TokenStore(Jdbi jdbi, ChangeFeed feed) {
         this.jdbi = jdbi;
+        this.feed = feed;
+    }
+
+    /** The feed this store announces its commits on: the authenticator refreshes its token cache from it. */
+    public ChangeFeed feed() {
+        return feed;
     }
 
     public record TokenRecord(String name, String scope, String tokenHash, OffsetDateTime createdAt) {
@@ -26,7 +33,7 @@ public final class TokenStore {
 
     /** Inserts a token; false when the name is taken. */
     public boolean insert(String name, String scope, String tokenHash) {
-        return jdbi.inTransaction(h -> {
+        return announced(jdbi.inTransaction(h -> {
             boolean exists = h.createQuery("SELECT COUNT(*) FROM api_tokens WHERE name = :name")
                     .bind("name", name).mapTo(Integer.class).one() > 0;
             if (exists) {
@@ -37,11 +44,45 @@ public final class TokenStore {
                     .bind("now", OffsetDateTime.now(ZoneOffset.UTC))
                     .execute();
             return true;
+        }));
+    }
+
+    private boolean announced(boolean changed) {
+        if (changed) {
+            feed.committed(ChangeFeed.Topic.TOKENS);
+        }
+        return changed;
+    }
+
+    /** What {@link #revoke} did. */
+    public enum Revocation {
+        REVOKED, NOT_FOUND, LAST_ADMIN
+    }
+
+    /**
+     * Deletes a token unless it is the last admin token (which would lock every admin out until a restart). The
+     * admin rows are locked for the check, so two concurrent revocations cannot remove the last two admins.
+     */
+    public synchronized Revocation revoke(String name) {
+        Revocation outcome = revokeInTransaction(name);
+        announced(outcome == Revocation.REVOKED);
+        return outcome;
+    }
+
+    private Revocation revokeInTransaction(String name) {
+        return jdbi.inTransaction(h -> {
+            List<String> admins = h.createQuery("SELECT name FROM api_tokens WHERE scope = 'admin' ORDER BY name FOR UPDATE")
+                    .mapTo(String.class).list();
+            if (admins.size() == 1 && admins.get(0).equals(name)) {
+                return Revocation.LAST_ADMIN;
+            }
+            int deleted = h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute();
+            return deleted > 0 ? Revocation.REVOKED : Revocation.NOT_FOUND;
         });
     }
 
     public boolean delete(String name) {
-        return jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0;
+        return announced(jdbi.withHandle(h -> h.createUpdate("DELETE FROM api_tokens WHERE name = :name").bind("name", name).execute()) > 0);
     }
 
     public boolean anyWithScope(String scope) {

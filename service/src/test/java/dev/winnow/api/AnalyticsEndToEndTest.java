@@ -558,6 +558,11 @@ class AnalyticsEndToEndTest {
     }
 
     static void external(String name, Map<LocalDate, Double> series) {
+        external(server, name, series);
+    }
+
+    /** Defines an external factor on {@code server} and uploads exactly these returns to it. */
+    static void external(TestServer server, String name, Map<LocalDate, Double> series) {
         TestServer.Reply put = server.putJson("/v1/factors/" + name,
                 "{\"method\":\"external\",\"theme\":\"test\",\"rationale\":\"hand-made series\"}", ADMIN);
         assertEquals(201, put.status(), put.body());

@@ -166,6 +166,17 @@ class ChartsEndToEndTest {
     }
 
     @Test
+    void portfolioAndIcChartsSayWhichDataTheyNeed() {
+        for (String kind : List.of("portfolios", "ic")) {
+            TestServer.Reply r = server.get("/v1/factors/value_quintile_cap/charts/" + kind);
+            TestServer.assertProblem(r, 409);
+            assertTrue(r.json().path("detail").asText().contains("GET /v1/factors/{factor}/" + kind), r.body());
+            TestServer.assertProblem(server.get("/v1/factors/nope/charts/" + kind), 400);
+            TestServer.assertProblem(server.get("/v1/factors/value/charts/" + kind + "?width=5"), 400);
+        }
+    }
+
+    @Test
     void anUnchangedChartAnswers304AndTheETagFollowsTheData() {
         TestServer.Reply first = server.get("/v1/factors/value/charts/cumulative");
         String tag = first.header("ETag");

@@ -109,6 +109,21 @@ class UploadLimitsEndToEndTest {
     }
 
     @Test
+    void aSpoolThatCannotBeWrittenIs507NotA500() throws IOException {
+        serverWith(Limits.DEFAULTS.maxUploadBytes(), 0);
+        Path spool = server.dataDir().resolve("spool");
+        if (Files.isDirectory(spool)) {
+            Files.delete(spool);
+        }
+        Files.writeString(spool, "a file where the spool directory should be"); // unwritable even for root
+        TestServer.Reply r = server.postCsv("/v1/panels/nowhere/uploads", rows(3), ADMIN);
+        assertProblem(r, 507);
+        assertTrue(!r.body().contains(server.dataDir().toString()), "no internal paths: " + r.body());
+        Files.delete(spool);
+        assertEquals("succeeded", server.upload("/v1/panels/nowhere/uploads", rows(3)).path("state").asText());
+    }
+
+    @Test
     void uploadsAre507WhileFreeSpaceIsBelowTheFloor() throws IOException {
         serverWith(Limits.DEFAULTS.maxUploadBytes(), Long.MAX_VALUE / 4);
         TestServer.Reply r = server.postCsv("/v1/panels/full/uploads", rows(3), ADMIN);

@@ -10,12 +10,12 @@ import java.util.HexFormat;
 import java.util.zip.GZIPInputStream;
 
 /** Finds the committed top-level {@code seed-data} folder from the test's working directory and reads its files. */
-final class SeedDataFolder {
+public final class SeedDataFolder {
 
     private SeedDataFolder() {
     }
 
-    static Path locate() {
+    public static Path locate() {
         Path dir = Path.of("").toAbsolutePath();
         while (dir != null) {
             Path candidate = dir.resolve("seed-data");
