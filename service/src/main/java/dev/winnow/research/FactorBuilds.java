@@ -91,10 +91,12 @@ public final class FactorBuilds {
         List<TogetherOutcome> out = new ArrayList<>();
         Map<Long, List<FactorVersionRecord>> byPanel = new LinkedHashMap<>();
         Map<Long, List<FactorEngine.Member>> members = new LinkedHashMap<>();
+        Map<Long, java.util.Set<String>> columns = new LinkedHashMap<>();
         for (FactorVersionRecord v : versions) {
             try {
                 FactorDefinition def = definition(v);
-                panelSource(v);
+                panelSource(v, def);
+                columns.computeIfAbsent(v.panelId(), k -> new java.util.TreeSet<>()).addAll(def.columnsRead());
                 FactorEngine.Member m = new FactorEngine.Member(def, riskFree(def), signalFactors(def));
                 byPanel.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(v);
                 members.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(m);
@@ -105,7 +107,7 @@ public final class FactorBuilds {
         long totalDates = 0;
         Map<Long, StorePanelSource> sources = new LinkedHashMap<>();
         for (Long panelId : byPanel.keySet()) {
-            StorePanelSource source = new StorePanelSource(panels, panelId);
+            StorePanelSource source = new StorePanelSource(panels, panelId, columns.get(panelId)::contains);
             sources.put(panelId, source);
             totalDates += source.dates().size();
         }
