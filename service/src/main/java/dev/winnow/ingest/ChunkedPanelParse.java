@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.construct.CrossSection;
+import dev.winnow.store.Limits;
 
 import java.io.ByteArrayInputStream;
 import java.io.EOFException;
@@ -33,7 +34,8 @@ import java.util.zip.ZipException;
  * {@link Unsuitable} before the result is formed, and the caller discards what the sink received and parses the file
  * in two passes: a date that comes back after another date or out of ascending order, a new column whose type the
  * first chunk did not tell (numbers there, text later, or no value at all), a header problem, a chunk boundary inside
- * a quoted field, an unreadable gzip stream, or a record longer than the chunk limit.
+ * a quoted field, an unreadable gzip stream, a record longer than the chunk limit, or a date with more rows than
+ * {@link Limits#MAX_ROWS_PER_DATE}.
  *
  * <p>New column types are decided by the first chunk: a column with any text there is a label column; otherwise a
  * number column, which the whole file must confirm. Once any error is found no more cross-sections are formed (the
@@ -43,7 +45,7 @@ import java.util.zip.ZipException;
 final class ChunkedPanelParse {
 
     /** Bytes per chunk: large enough that each chunk holds many dates' rows, small enough to keep memory low. */
-    static final int CHUNK_BYTES = 4 << 20;
+    static final int CHUNK_BYTES = 1 << 20;
     /** A single record may not exceed this; longer lines are left to the two-pass parse to report. */
     private static final int MAX_CHUNK_BYTES = CsvTokenizer.MAX_RECORD_BYTES + CHUNK_BYTES;
     private static final Object END = new Object();
@@ -107,7 +109,7 @@ final class ChunkedPanelParse {
     }
 
     Outcome run() throws IOException, SinkException, Unsuitable, InterruptedException {
-        BlockingQueue<Object> chunks = new ArrayBlockingQueue<>(workers + 2);
+        BlockingQueue<Object> chunks = new ArrayBlockingQueue<>(workers);
         ExecutorService pool = Executors.newFixedThreadPool(workers, r -> {
             Thread t = new Thread(r, "upload-parse");
             t.setDaemon(true);
@@ -165,7 +167,7 @@ final class ChunkedPanelParse {
         Deque<Future<ChunkRows>> inFlight = new ArrayDeque<>();
         boolean end = first.last();
         while (true) {
-            while (!end && inFlight.size() < workers + 1) {
+            while (!end && inFlight.size() < workers) {
                 Object item = inFlight.isEmpty() ? chunks.take() : chunks.poll();
                 if (item == null) {
                     break;
@@ -480,6 +482,10 @@ final class ChunkedPanelParse {
                 finishBlock();
                 blockDate = date;
                 block = new DateBlock(lastBlockRows, numberCount, labelCount);
+            }
+            if (block.size >= Limits.MAX_ROWS_PER_DATE) {
+                // the two passes report this date (duplicates or its size) within the same bounded memory
+                throw new Unsuitable("a date with more rows than one date may hold");
             }
             block.ensureRoom();
             int k = block.size++;
