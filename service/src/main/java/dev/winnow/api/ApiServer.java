@@ -7,6 +7,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
@@ -43,8 +44,8 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
-                               FactorHoldings holdings, Families families) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
+                               Health.Check health, FactorHoldings holdings, Families families) {
     }
 
     private ApiServer() {
@@ -66,7 +67,7 @@ public final class ApiServer {
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         FamilyRoutes families = new FamilyRoutes(d.families());
-        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -137,6 +138,7 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.get("/v1/factors/{factor}/portfolios", crossSection::portfolios);
             config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
             config.routes.get("/v1/model-tests", crossSection::modelTests);
 

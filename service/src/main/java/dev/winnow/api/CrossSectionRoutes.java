@@ -5,9 +5,12 @@ import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.Recipe;
 import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.Universe;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.stats.FactorModelTest;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
 import java.time.LocalDate;
@@ -18,19 +21,54 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 
-/** Cross-sectional evidence over HTTP: Fama-MacBeth regressions and tests of a factor model on test assets. */
+/** Cross-sectional evidence over HTTP: bucket portfolios, Fama-MacBeth regressions, tests of a factor model on test assets. */
 final class CrossSectionRoutes {
     static final int MAX_SIGNALS = 20;
     static final int MAX_MODEL_SERIES = 200;
     private static final Set<String> FAMA_MACBETH_FIELDS = Set.of("panel", "signals", "lag", "standardize", "weighting",
             "universe", "from", "to");
 
+    private final FactorStore factors;
     private final FamaMacBethStudy famaMacBeth;
     private final ModelTests modelTests;
+    private final FactorPortfolios portfolios;
 
-    CrossSectionRoutes(FamaMacBethStudy famaMacBeth, ModelTests modelTests) {
+    CrossSectionRoutes(FactorStore factors, FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios) {
+        this.factors = factors;
         this.famaMacBeth = famaMacBeth;
         this.modelTests = modelTests;
+        this.portfolios = portfolios;
+    }
+
+    /** {@code GET /v1/factors/{factor}/portfolios?from&to&frequency&form&version}. */
+    void portfolios(Context ctx) {
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
+        boolean csv = Responses.wantsCsv(ctx);
+        if (Responses.notModified(ctx, v, csv)) {
+            return;
+        }
+        FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), window.cumulative());
+        if (csv) {
+            StringBuilder sb = new StringBuilder("date");
+            table.names().forEach(n -> sb.append(',').append(Responses.csvText(n)));
+            sb.append('\n');
+            for (int t = 0; t < table.dates().size(); t++) {
+                sb.append(table.dates().get(t));
+                for (double[] row : table.returns()) {
+                    sb.append(',').append(Responses.csvNumber(row[t]));
+                }
+                sb.append('\n');
+            }
+            Responses.csv(ctx, sb.toString());
+            return;
+        }
+        Map<String, double[]> returns = new LinkedHashMap<>();
+        for (int k = 0; k < table.names().size(); k++) {
+            returns.put(table.names().get(k), table.returns().get(k));
+        }
+        Json.respond(ctx, new CrossSectionWire.Portfolios(v.name(), v.version(), table.frequency().wireName(), window.form(),
+                table.names(), table.dates(), returns));
     }
 
     /** {@code POST /v1/fama-macbeth} (read scope). */

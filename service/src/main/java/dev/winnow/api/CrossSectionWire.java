@@ -24,6 +24,10 @@ final class CrossSectionWire {
         }
     }
 
+    record Portfolios(String factor, int version, String frequency, String form, List<String> portfolios,
+                      List<LocalDate> dates, Map<String, double[]> returns) {
+    }
+
     record SlopeSeries(List<LocalDate> dates, Map<String, double[]> slopes) {
     }
 

@@ -164,6 +164,9 @@ final class Bench {
         System.out.printf(Locale.ROOT, "signal values at the last date over HTTP: column %.1f ms; zscore(trailing_return 231 skip 21) "
                 + "%.1f ms, reading 252 dates = %.0f ns per row read (decoding included)%n", columnMillis, recipeMillis,
                 recipeMillis * 1e6 / rowsRead);
+        // retired, so that the append and revision figures below extend the same ten factors as before
+        http.delete("/v1/families/momfam");
+        http.delete("/v1/factors/mom_recipe");
     }
 
     /**

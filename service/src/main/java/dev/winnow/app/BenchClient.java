@@ -59,6 +59,12 @@ public final class BenchClient {
         return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
     }
 
+    /** A DELETE with the token; returns the status code. */
+    public int delete(String path) throws IOException, InterruptedException {
+        return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).DELETE()
+                .timeout(Duration.ofSeconds(60)).build(), HttpResponse.BodyHandlers.discarding()).statusCode();
+    }
+
     /** A GET with the token. */
     public HttpResponse<String> get(String path) throws IOException, InterruptedException {
         return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).GET()

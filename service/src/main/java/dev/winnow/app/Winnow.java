@@ -13,6 +13,7 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
@@ -93,7 +94,7 @@ public final class Winnow implements AutoCloseable {
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
                 () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port());
     }
 

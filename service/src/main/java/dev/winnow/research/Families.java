@@ -354,11 +354,12 @@ public final class Families {
                           @JsonProperty("significant_share") Double significantShare, Best best) {
     }
 
-    public record View(String family, JsonNode base, JsonNode vary, Long job, List<VariantView> variants, Summary summary) {
+    /** @param job the latest build job's id (a string, as in every job answer), null when none was needed */
+    public record View(String family, JsonNode base, JsonNode vary, String job, List<VariantView> variants, Summary summary) {
     }
 
     /** A family in the list. */
-    public record Listed(String family, int variants, Long job) {
+    public record Listed(String family, int variants, String job) {
     }
 
     public View get(String name) {
@@ -382,7 +383,8 @@ public final class Families {
             }
         }
         int readyCount = (int) rows.stream().filter(r -> "ready".equals(r.status())).count();
-        return new View(f.name(), spec.get("base"), spec.get("vary"), f.jobId(), rows, summary(rows.size(), readyCount, readyTrials));
+        return new View(f.name(), spec.get("base"), spec.get("vary"), jobText(f.jobId()), rows,
+                summary(rows.size(), readyCount, readyTrials));
     }
 
     /**
@@ -418,7 +420,7 @@ public final class Families {
         List<Listed> out = new ArrayList<>();
         for (FamilyRecord f : families.listLive()) {
             int active = (int) families.variants(f.id()).stream().filter(VariantRecord::active).count();
-            out.add(new Listed(f.name(), active, f.jobId()));
+            out.add(new Listed(f.name(), active, jobText(f.jobId())));
         }
         return out;
     }
@@ -435,6 +437,10 @@ public final class Families {
     private FamilyRecord live(String name) {
         return families.find(name).filter(f -> !f.retired())
                 .orElseThrow(() -> new UnknownNameException("No family '" + name + "'; GET /v1/families lists them."));
+    }
+
+    private static String jobText(Long id) {
+        return id == null ? null : String.valueOf(id);
     }
 
     private static Double finite(double x) {

@@ -34,13 +34,21 @@ public final class StorageFaults {
         return false;
     }
 
+    /** JSON or gzip parse errors and a client that went away are IOExceptions too, but not storage faults. */
+    private static boolean isParsingOrClient(Throwable t) {
+        String name = t.getClass().getName();
+        return name.startsWith("com.fasterxml.jackson.") || name.startsWith("org.eclipse.jetty.")
+                || t instanceof java.util.zip.ZipException || t instanceof java.io.EOFException
+                || t instanceof java.nio.charset.CharacterCodingException;
+    }
+
     /** True when the failure comes from the storage rather than from the job's data or the code. */
     public static boolean isStorageFault(Throwable failure) {
         if (isDiskFull(failure)) {
             return true;
         }
         for (Throwable t = failure; t != null; t = t.getCause() == t ? null : t.getCause()) {
-            if (t instanceof IOException) {
+            if (t instanceof IOException && !isParsingOrClient(t)) {
                 return true;
             }
             if (t instanceof SQLException sql) {

@@ -48,6 +48,20 @@ public final class ConstructionFixtures {
         return definitions;
     }
 
+    /**
+     * The recipe fixture definitions of signal_fixtures.py (panel {@code fixture}) that read no factor: recipes,
+     * within-group and dependent double sorts, rank weights.
+     */
+    public static Map<String, FactorDefinition> recipeDefinitions() {
+        Map<String, FactorDefinition> out = new LinkedHashMap<>();
+        SignalFixtures.definitions().forEach((id, def) -> {
+            if (def.recipeFactors().isEmpty()) {
+                out.put(id, def);
+            }
+        });
+        return out;
+    }
+
     /** A panel source over cross-sections held in memory. */
     public static PanelSource inMemory(List<CrossSection> sections) {
         return new InMemoryPanel(sections);

@@ -60,7 +60,7 @@ import org.junit.jupiter.api.TestFactory;
 class RevisionCheckpointConsistencyTest {
     private static final int FIXTURE_SPACING = 9;
     private static final int LONG_SPACING = 20;
-    private static final Map<String, FactorDefinition> DEFINITIONS = storable(ConstructionFixtures.definitions());
+    private static final Map<String, FactorDefinition> DEFINITIONS = withRecipes(storable(ConstructionFixtures.definitions()));
     private static final AtomicInteger STORES = new AtomicInteger();
 
     private static Map<String, FactorDefinition> storable(Map<String, FactorDefinition> definitions) {
@@ -72,6 +72,17 @@ class RevisionCheckpointConsistencyTest {
             }
         });
         assertEquals(19, out.size(), "storable fixture definitions");
+        return out;
+    }
+
+    /** The recipe fixture definitions too (signal recipes, within, control, rank_weighted), each stored and built alike. */
+    private static Map<String, FactorDefinition> withRecipes(Map<String, FactorDefinition> definitions) {
+        Map<String, FactorDefinition> out = new LinkedHashMap<>(definitions);
+        ConstructionFixtures.recipeDefinitions().forEach((name, def) -> {
+            assertEquals(def.constructionKey(), DefinitionJson.read(DefinitionJson.toCanonicalString(def)).definition().constructionKey());
+            out.put(name, def);
+        });
+        assertEquals(19 + 12, out.size(), "storable fixture definitions with the recipe ones");
         return out;
     }
 
