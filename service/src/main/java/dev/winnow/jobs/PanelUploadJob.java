@@ -65,6 +65,7 @@ public final class PanelUploadJob implements JobHandler {
 
         Map<String, Object> timings = new LinkedHashMap<>();
         Optional<List<LocalDate>> already = panels.committedUploadDates(job.id());
+        panels.discardStagingOfJob(job.id());
         Counters counters;
         List<LocalDate> dates;
         if (already.isPresent()) {

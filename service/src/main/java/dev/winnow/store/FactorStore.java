@@ -57,6 +57,19 @@ public final class FactorStore {
     private final ChangeFeed feed;
     private final FactorCatalog catalog;
 
+    private final java.util.concurrent.atomic.LongAdder seriesCacheHits = new java.util.concurrent.atomic.LongAdder();
+    private final java.util.concurrent.atomic.LongAdder seriesCacheMisses = new java.util.concurrent.atomic.LongAdder();
+
+    /** Series lookups answered from the cache since start (for /metrics). */
+    public long seriesCacheHits() {
+        return seriesCacheHits.sum();
+    }
+
+    /** Series lookups that read the store since start (for /metrics). */
+    public long seriesCacheMisses() {
+        return seriesCacheMisses.sum();
+    }
+
     /** A store whose commits are announced on a feed of its own (one process, tests). */
     public FactorStore(Jdbi jdbi) {
         this(jdbi, new LocalChangeFeed());
@@ -337,6 +350,7 @@ public final class FactorStore {
      */
     public void saveBuild(long factorId, int version, StoredBuild build, Replaced replaced) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             deleteFrom(h, "factor_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
@@ -409,6 +423,7 @@ public final class FactorStore {
      */
     public void saveExternal(long factorId, int version, List<StoredReturn> returns, boolean revise) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             if (revise) {
                 PreparedBatch del = h.prepareBatch("DELETE FROM factor_returns WHERE factor_id = :f AND version = :v AND obs_date = :d");
                 for (StoredReturn r : returns) {
@@ -445,9 +460,12 @@ public final class FactorStore {
     }
 
     public void markFailed(long factorId, int version, String reportJson) {
-        jdbi.useHandle(h -> h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
-                        + "WHERE factor_id = :f AND version = :v")
-                .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute());
+        jdbi.useTransaction(h -> {
+            JobLease.hold(h);
+            h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
+                            + "WHERE factor_id = :f AND version = :v")
+                    .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
+        });
         announce();
     }
 
@@ -475,8 +493,10 @@ public final class FactorStore {
         SeriesKey key = new SeriesKey(factorId, version, leg);
         CachedSeries cached = recentSeries.get(key);
         if (cached != null && cached.dataVersion() == dataVersion) {
+            seriesCacheHits.increment();
             return cached.series();
         }
+        seriesCacheMisses.increment();
         CachedSeries read = jdbi.inTransaction(h -> readSeries(h, factorId, version, leg));
         recentSeries.put(key, read);
         return read.series();
