@@ -9,6 +9,9 @@ endpoint rules in pandas/numpy/scipy/statsmodels, not from the Java.
      (rows scaled by sqrt(market_cap) for cap weighting), r_squared = 1 - SSR/SST (weighted), and the slope
      summaries: numpy mean/std(ddof=1), statsmodels OLS on a constant with cov_type="HAC",
      maxlags=floor(4 (T/100)^(2/9)), use_correction=False for the Newey-West t, scipy.stats.norm for the p-value.
+   - portfolios: for each definition, every bucket of a sort (the six of a size_sort) held by the construction rules
+     (rebalance calendar, lag, eligibility, type-7 breakpoints with ties low, drift, members without a return leaving),
+     using the functions of the independent construction script (construction_fixtures.py) for the shared rules;
    - ic: for each case, per grid index R and horizon h, scipy.stats.spearmanr / pearsonr between the signal at
      R-(lag-1) (finite, universe filters) and the return at R+h over the securities that have both, when at least
      min_securities do; and the summary (mean, std ddof=1, ic_ir, t, statsmodels HAC t, share positive).
@@ -24,6 +27,7 @@ import numpy as np
 import pandas as pd
 from scipy import stats
 
+import construction_fixtures as construction
 from cross_sectional_fixtures import hac_mean_t as hac_t, nw_lags
 
 FIXTURES = Path(__file__).resolve().parent.parent / "resources" / "fixtures"
@@ -35,6 +39,28 @@ FAMA_MACBETH_CASES = [
     {"id": "cap_std_lag2", "signals": {"value": "value", "mom": "momentum", "noise": "noise"}, "lag": 2,
      "standardize": True, "weighting": "cap", "exclude": ["C"], "from": "2011-06-01", "to": "2013-12-31"},
 ]
+# bucket portfolios: definitions in the construction script's spec syntax, with their wire form for PUT
+PORTFOLIO_CASES = [
+    {"id": "value_q5", "spec": "method=sort;signal=value;buckets=5;weighting=equal;lag=1;rebalance=monthly",
+     "definition": {"method": "sort", "signal": "value", "buckets": 5, "weighting": "equal", "rebalance": "monthly"}},
+    {"id": "noise_t3", "spec": "method=sort;signal=noise;buckets=3;weighting=cap;lag=2;rebalance=quarterly;"
+                               "direction=low_minus_high;exclude=sector:C",
+     "definition": {"method": "sort", "signal": "noise", "buckets": 3, "weighting": "cap", "lag": 2,
+                    "rebalance": "quarterly", "direction": "low_minus_high",
+                    "universe": {"labels": {"sector": {"exclude": ["C"]}}}}},
+    {"id": "value_within", "spec": "method=sort;signal=value;buckets=3;weighting=equal;lag=1;rebalance=monthly",
+     "within": "sector",
+     "definition": {"method": "sort", "signal": "value", "buckets": 3, "weighting": "equal", "rebalance": "monthly",
+                    "within": "sector"}},
+    {"id": "value_control", "spec": "method=sort;signal=value;buckets=3;weighting=cap;lag=1;rebalance=every_period",
+     "control": ("momentum", 2),
+     "definition": {"method": "sort", "signal": "value", "buckets": 3, "weighting": "cap",
+                    "control": {"signal": "momentum", "buckets": 2}}},
+    {"id": "value_2x3", "spec": "method=size_sort;signal=value;weighting=cap;lag=1;rebalance=every_period;output=signal",
+     "definition": {"method": "size_sort", "signal": "value", "weighting": "cap", "output": "signal"}},
+]
+SIX = {"SL": "small_low", "SN": "small_mid", "SH": "small_high", "BL": "big_low", "BN": "big_mid", "BH": "big_high"}
+
 IC_CASES = [
     {"id": "spearman", "signal": "value", "lag": 1, "method": "spearman", "horizons": [1, 2, 3], "min": 10,
      "exclude": None},
@@ -162,6 +188,87 @@ def information_coefficients(panel, dates, case):
     return {"dates": [d.date().isoformat() for d in dates], "ic": ic, "summary": summary}
 
 
+def sort_into(frame, signal, b):
+    """Rows of frame by bucket 1..b: type-7 breakpoints (numpy 'linear') at j/b of frame's signal, ties low."""
+    cuts = np.quantile(frame[signal].to_numpy(), np.arange(1, b) / b)
+    bucket = 1 + (frame[signal].to_numpy()[:, None] > cuts[None, :]).sum(axis=1)
+    return {j: frame[bucket == j] for j in range(1, b + 1)}
+
+
+def within_buckets(xs, spec, column, names):
+    """Breakpoints inside each label group with at least b eligible members; bucket j pools every group's bucket j."""
+    elig = xs[construction.eligible_mask(xs, spec) & xs[column].notna()]
+    pooled = {j: [] for j in range(1, spec["buckets"] + 1)}
+    for _, group in elig.groupby(column):
+        if len(group) < spec["buckets"]:
+            continue
+        for j, members in sort_into(group, spec["signal"], spec["buckets"]).items():
+            pooled[j].append(members)
+    out = {}
+    for j, name in zip(range(1, spec["buckets"] + 1), names):
+        members = pd.concat(pooled[j]) if pooled[j] else elig.iloc[0:0]
+        out[name] = construction.weights_of(members, spec) if len(members) else pd.Series(dtype=float)
+    return out
+
+
+def control_buckets(xs, spec, control, names):
+    """Dependent double sort: c control buckets, then b signal buckets inside each; bucket j lists its c portfolios."""
+    column, c = control
+    elig = xs[construction.eligible_mask(xs, spec) & np.isfinite(xs[column])]
+    out = {name: [pd.Series(dtype=float)] * c for name in names}
+    if len(elig) == 0:
+        return out
+    for i, inside in sort_into(elig, column, c).items():
+        if len(inside) == 0:
+            continue
+        for j, members in sort_into(inside, spec["signal"], spec["buckets"]).items():
+            out[names[j - 1]][i - 1] = construction.weights_of(members, spec) if len(members) else pd.Series(dtype=float)
+    return out
+
+
+def bucket_portfolios(panel, dates, case):
+    """Every bucket (sort) or each of the six (size_sort), held by the construction rules (drift, members leaving)."""
+    spec = construction.parse_spec(case["spec"])
+    returns = panel.pivot(index="date", columns="security", values="return").reindex(dates)
+    points = construction.rebalance_points(dates, spec["rebalance"], spec["rebalance_month"])
+    names = [str(j) for j in range(1, spec["buckets"] + 1)] if spec["method"] == "sort" else list(SIX.values())
+    out = {name: {} for name in names}
+    for i, point in enumerate(points):
+        row_index = point - (spec["lag"] - 1)
+        if row_index < 0:
+            continue
+        xs = panel[panel["date"] == dates[row_index]].set_index("security")
+        if "within" in case:
+            subs = within_buckets(xs, spec, case["within"], names)
+        elif "control" in case:
+            subs = control_buckets(xs, spec, case["control"], names)
+        elif spec["method"] == "sort":
+            elig = xs[construction.eligible_mask(xs, spec)]
+            bp = construction.breakpoint_set(elig, spec)
+            subs = {name: pd.Series(dtype=float) for name in names}
+            if len(bp):
+                b = spec["buckets"]
+                cuts = np.quantile(bp[spec["signal"]].to_numpy(), np.arange(1, b) / b)
+                bucket = 1 + (elig[spec["signal"]].to_numpy()[:, None] > cuts[None, :]).sum(axis=1)
+                for j in range(1, b + 1):
+                    members = elig[bucket == j]
+                    if len(members):
+                        subs[str(j)] = construction.weights_of(members, spec)
+        else:
+            subs = {SIX[k]: w for k, w in construction.form(xs, spec).items()}
+        end = points[i + 1] if i + 1 < len(points) else len(dates) - 1
+        periods = dates[point + 1:end + 1]
+        for name, weights in subs.items():
+            if isinstance(weights, list):  # a control sort's bucket: the mean of its c portfolios, none if any has none
+                port = pd.concat([construction.hold(w, returns, periods)[0] for w in weights], axis=1).mean(axis=1, skipna=False)
+            else:
+                port, _ = construction.hold(weights, returns, periods)
+            for d in periods:
+                if not np.isnan(port[d]):
+                    out[name][d.date().isoformat()] = float(port[d])
+    return {"definition": case["definition"], "portfolios": out}
+
+
 def main():
     panel = make_panel()
     path = FIXTURES / "xsection_panel.csv"
@@ -172,10 +279,13 @@ def main():
     dates = sorted(panel["date"].unique())
     dates = [pd.Timestamp(d) for d in dates]
     expected = {"fama_macbeth": {c["id"]: fama_macbeth(panel, dates, c) for c in FAMA_MACBETH_CASES},
+                "portfolios": {c["id"]: bucket_portfolios(panel, dates, c) for c in PORTFOLIO_CASES},
                 "ic": {c["id"]: information_coefficients(panel, dates, c) for c in IC_CASES}}
     (FIXTURES / "xsection_expected.json").write_text(json.dumps(expected, indent=1) + "\n")
     for cid, r in expected["fama_macbeth"].items():
         print(cid, r["periods"], "periods", r["skipped"], "skipped", [round(c["nw_t_stat"], 2) for c in r["coefficients"]])
+    for cid, r in expected["portfolios"].items():
+        print(cid, {k: len(v) for k, v in r["portfolios"].items()})
     for cid, r in expected["ic"].items():
         print(cid, [(s["horizon"], s["n"], round(s["mean"], 3)) for s in r["summary"]])
 

@@ -7,9 +7,11 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.Families;
 import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.InvalidRequestException;
 import dev.winnow.research.LoadingsService;
@@ -43,30 +45,47 @@ public final class ApiServer {
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
                                UploadSpool spool, FactorDefinitions definitions, TrialLibrary library, FactorEvidence evidence,
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
-                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, Health.Check health,
-                               FactorHoldings holdings, Families families) {
+                               FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
+                               InformationCoefficients informationCoefficients,
+                               Health.Check health, FactorHoldings holdings, Families families) {
     }
 
     private ApiServer() {
     }
 
-    public static Javalin create(Dependencies d, String host, int port) {
+    /**
+     * What this instance serves: the API or (a worker instance) only {@code /health} and {@code /metrics}; the
+     * metrics registry requests are timed into and its scrape; whether {@code /metrics} needs no token.
+     */
+    public record Serving(boolean servesApi, io.micrometer.core.instrument.MeterRegistry metrics,
+                          java.util.function.Supplier<String> scrape, boolean metricsPublic) {
+    }
+
+    /**
+     * The HTTP server; with {@code servesApi} false only {@code /health} and {@code /metrics} answer, everything
+     * else is a 404 saying so.
+     */
+    public static Javalin create(Dependencies d, String host, int port, Serving serving) {
+        boolean servesApi = serving.servesApi();
+        MetricsEndpoint metrics = new MetricsEndpoint(serving.metrics(), serving.scrape());
         Authenticator auth = new Authenticator(d.tokens());
         TokenRoutes tokens = new TokenRoutes(d.tokens());
         JobRoutes jobs = new JobRoutes(d.jobs());
         PanelRoutes panels = new PanelRoutes(d.panels(), d.queue(), d.spool());
         ServedResponses served = new ServedResponses();
+        metrics.watch(served);
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
         LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
-        ChartRoutes charts = new ChartRoutes(d.factors());
+        ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
         SignalRoutes signals = new SignalRoutes(d.signals());
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         FamilyRoutes families = new FamilyRoutes(d.families());
-        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.famaMacBeth(), d.modelTests());
+        CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios(),
+                d.informationCoefficients());
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -74,12 +93,26 @@ public final class ApiServer {
             config.startup.showJavalinBanner = false;
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;
+            config.requestLogger.http(metrics::record);
 
             ProblemErrorHandler jettyErrors = new ProblemErrorHandler();
             config.jetty.modifyServer(server -> server.setErrorHandler(jettyErrors));
             config.jetty.modifyServletContextHandler(handler -> handler.setErrorHandler(jettyErrors));
             config.routes.before(Requests::checkQueryEscapes);
-            config.routes.before(auth::check);
+            if (!servesApi) {
+                config.routes.before(ctx -> {
+                    if (!ctx.path().equals("/health") && !ctx.path().equals("/metrics")) {
+                        throw new ApiProblem(404, "Not found", "This instance only runs jobs (WINNOW_ROLE=worker); "
+                                + "send API requests to an instance with WINNOW_ROLE api or all.");
+                    }
+                });
+            }
+            config.routes.before(ctx -> {
+                if (!(serving.metricsPublic() && ctx.path().equals("/metrics"))) {
+                    auth.check(ctx);
+                }
+            });
+            config.routes.get("/metrics", metrics::scrape);
             config.routes.get("/health", ctx -> {
                 Health health = d.health().now();
                 Json.respond(ctx, health.serving() ? 200 : 503, health);
@@ -137,6 +170,8 @@ public final class ApiServer {
             config.routes.get("/v1/panels/{panel}/loadings-config", loadings::getConfig);
             config.routes.post("/v1/panels/{panel}/loadings-config/history", loadings::history);
 
+            config.routes.get("/v1/factors/{factor}/portfolios", crossSection::portfolios);
+            config.routes.get("/v1/factors/{factor}/ic", crossSection::informationCoefficients);
             config.routes.post("/v1/fama-macbeth", crossSection::famaMacBeth);
             config.routes.get("/v1/model-tests", crossSection::modelTests);
 

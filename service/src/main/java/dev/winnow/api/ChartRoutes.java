@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.charts.BarChart;
 import dev.winnow.charts.ChartFrame;
 import dev.winnow.charts.Heatmap;
 import dev.winnow.charts.Palette;
@@ -16,16 +17,20 @@ import dev.winnow.stats.CorrelationMatrix;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.DrawdownReport;
 import dev.winnow.stats.Drawdowns;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.stats.FrequencyConversion;
+import dev.winnow.stats.PeriodStatistics;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.stats.RollingSignificance;
 import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.Leg;
 import io.javalin.http.Context;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Locale;
 
 /**
  * Charts as SVG documents of the numbers the JSON endpoints serve: each handler reads its input through the same
@@ -36,9 +41,11 @@ final class ChartRoutes {
     static final String SVG = "image/svg+xml";
 
     private final FactorStore factors;
+    private final FactorPortfolios portfolios;
 
-    ChartRoutes(FactorStore factors) {
+    ChartRoutes(FactorStore factors, FactorPortfolios portfolios) {
         this.factors = factors;
+        this.portfolios = portfolios;
     }
 
     /** The wealth index 1 + cumulative return of the spread (or net spread), with the legs as thinner lines. */
@@ -190,15 +197,50 @@ final class ChartRoutes {
     }
 
     /**
-     * Bucket portfolios (mean return and t-statistic of each bucket) are not stored by this server yet, so the chart
-     * that would draw them answers 409 after the usual checks of its parameters, saying which data it needs.
+     * The mean return of each stored portfolio of the factor (the buckets of a sort, the six of a size_sort) as a bar,
+     * with its Newey-West t written beside it: the portfolios {@code GET /v1/factors/{factor}/portfolios} serves for
+     * the same {@code from}, {@code to}, {@code frequency} and {@code version}, each summarised by
+     * {@link PeriodStatistics#of} over the dates it has a return (as the monotonicity section of the evidence does).
      */
     void portfolios(Context ctx) {
-        SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
-        Size.of(ctx);
-        throw new ApiProblem(409, "Conflict", "The portfolios chart draws the mean return and t-statistic of each bucket portfolio of '"
-                + request.version().name() + "', and this server does not compute bucket portfolios yet (there is no "
-                + "GET /v1/factors/{factor}/portfolios); use the cumulative, drawdowns or significance chart meanwhile.");
+        Requests.rejectParams(ctx, "the portfolios chart (portfolios have no net or leg form)", "net", "leg", "form");
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
+        Size size = Size.of(ctx);
+        if (Responses.notModified(ctx, v, false)) {
+            return;
+        }
+        FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), false);
+        if (table.dates().isEmpty()) {
+            throw ApiProblem.badRequest("Factor '" + v.name() + "' has no portfolio returns"
+                    + (window.from() != null || window.to() != null ? " between the requested dates" : " yet (status " + v.status() + ")")
+                    + "; widen 'from'/'to' or wait for its build.");
+        }
+        List<BarChart.Bar> bars = new ArrayList<>();
+        for (int k = 0; k < table.names().size(); k++) {
+            PeriodStatistics p = PeriodStatistics.of(withoutGaps(table.dates(), table.returns().get(k)));
+            bars.add(new BarChart.Bar(table.names().get(k), p.mean(), Double.isFinite(p.nwTStat())
+                    ? "t " + String.format(Locale.ROOT, "%.2f", p.nwTStat()).replace('-', '\u2212') : "t n/a"));
+        }
+        String desc = "Mean " + table.frequency().wireName() + " return of each portfolio of factor " + v.name() + " version "
+                + v.version() + " (" + String.join(", ", table.names()) + ") from " + table.dates().get(0) + " to "
+                + table.dates().get(table.dates().size() - 1) + ", each bar labelled with the Newey-West t-statistic of its mean.";
+        BarChart chart = new BarChart("Portfolio", "Mean " + table.frequency().wireName() + " return (%)", ValueAxis.Format.PERCENT,
+                bars, Palette.SPREAD);
+        respond(ctx, chart.render(size.frame("Portfolios of " + v.name(), desc, ctx.res().getHeader("ETag"))));
+    }
+
+    /** The dated values that are defined. */
+    private static ReturnSeries withoutGaps(List<LocalDate> dates, double[] values) {
+        List<LocalDate> d = new ArrayList<>();
+        List<Double> r = new ArrayList<>();
+        for (int t = 0; t < values.length; t++) {
+            if (Double.isFinite(values[t])) {
+                d.add(dates.get(t));
+                r.add(values[t]);
+            }
+        }
+        return new ReturnSeries(d.toArray(LocalDate[]::new), r.stream().mapToDouble(Double::doubleValue).toArray());
     }
 
     /** Information coefficients are not computed by this server yet: a 409 that says which data the chart needs. */

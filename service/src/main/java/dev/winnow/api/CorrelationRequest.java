@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.research.SeriesNames;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.Frequency;
 import dev.winnow.stats.ReturnSeries;
@@ -13,7 +14,8 @@ import java.util.List;
 import java.util.Locale;
 
 /**
- * The series a correlation request names: {@code factors=a,b,...} (current versions, spreads), {@code method},
+ * The series a correlation request names: {@code factors=a,b,...} (current versions' spreads, or
+ * {@code <factor>:<portfolio>} for a stored portfolio, resolved by {@link SeriesNames}), {@code method},
  * {@code from}/{@code to} and {@code frequency}. The correlation endpoints and the correlation chart read their
  * input through here, so they agree on what is correlated.
  *
@@ -32,10 +34,11 @@ record CorrelationRequest(List<String> names, Correlations.Method method, List<F
         Frequency target = SeriesRequest.frequencyParam(ctx);
         List<FactorVersionRecord> versions = new ArrayList<>();
         List<ReturnSeries> series = new ArrayList<>();
+        SeriesNames seriesNames = new SeriesNames(factors);
         for (String name : names) {
-            FactorVersionRecord v = factors.catalog().current(name)
-                    .orElseThrow(() -> ApiProblem.badRequest("Unknown factor '" + name + "' in 'factors'; GET /v1/factors lists them."));
-            SeriesRequest.Resolved r = new SeriesRequest(v, FactorStore.Leg.SPREAD, from, to, target).load(factors);
+            SeriesNames.Resolved named = seriesNames.resolve(name, "factors");
+            FactorVersionRecord v = named.version();
+            SeriesRequest.Resolved r = SeriesRequest.convert(name, named.series(), from, to, target);
             if (r.series().size() == 0) {
                 throw ApiProblem.badRequest("Factor '" + name + "' has no observations in the requested range.");
             }

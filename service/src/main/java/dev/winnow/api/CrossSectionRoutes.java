@@ -5,9 +5,14 @@ import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.Recipe;
 import dev.winnow.construct.RecipeJson;
 import dev.winnow.construct.Universe;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.stats.FactorModelTest;
+import dev.winnow.stats.Correlations;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
 import java.time.LocalDate;
@@ -18,19 +23,118 @@ import java.util.List;
 import java.util.Map;
 import java.util.Set;
 
-/** Cross-sectional evidence over HTTP: Fama-MacBeth regressions and tests of a factor model on test assets. */
+/** Cross-sectional evidence over HTTP: bucket portfolios, Fama-MacBeth regressions, tests of a factor model on test assets. */
 final class CrossSectionRoutes {
     static final int MAX_SIGNALS = 20;
     static final int MAX_MODEL_SERIES = 200;
     private static final Set<String> FAMA_MACBETH_FIELDS = Set.of("panel", "signals", "lag", "standardize", "weighting",
             "universe", "from", "to");
 
+    private final FactorStore factors;
     private final FamaMacBethStudy famaMacBeth;
     private final ModelTests modelTests;
+    private final FactorPortfolios portfolios;
+    private final InformationCoefficients informationCoefficients;
 
-    CrossSectionRoutes(FamaMacBethStudy famaMacBeth, ModelTests modelTests) {
+    CrossSectionRoutes(FactorStore factors, FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
+                       InformationCoefficients informationCoefficients) {
+        this.factors = factors;
         this.famaMacBeth = famaMacBeth;
         this.modelTests = modelTests;
+        this.portfolios = portfolios;
+        this.informationCoefficients = informationCoefficients;
+    }
+
+    /** {@code GET /v1/factors/{factor}/ic?horizons&method&min_securities&from&to&version}. */
+    void informationCoefficients(Context ctx) {
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        List<Integer> horizons = horizonsParam(ctx);
+        String method = Requests.choiceParam(ctx, "method", List.of("spearman", "pearson"), "spearman");
+        Integer min = Requests.intParam(ctx, "min_securities", 3, 1_000_000);
+        LocalDate from = Requests.dateParam(ctx, "from");
+        LocalDate to = Requests.dateParam(ctx, "to");
+        Requests.checkRange(from, to);
+        boolean csv = Responses.wantsCsv(ctx);
+        if (Responses.notModified(ctx, v, csv)) {
+            return;
+        }
+        InformationCoefficients.Result r = informationCoefficients.run(new InformationCoefficients.Request(v, horizons,
+                method.equals("pearson") ? Correlations.Method.PEARSON : Correlations.Method.SPEARMAN, min == null ? 10 : min, from, to));
+        if (csv) {
+            StringBuilder sb = new StringBuilder("date");
+            horizons.forEach(h -> sb.append(",ic_").append(h));
+            sb.append('\n');
+            for (int t = 0; t < r.dates().size(); t++) {
+                sb.append(r.dates().get(t));
+                for (double[] row : r.ic()) {
+                    sb.append(',').append(Responses.csvNumber(row[t]));
+                }
+                sb.append('\n');
+            }
+            Responses.csv(ctx, sb.toString());
+            return;
+        }
+        Json.respond(ctx, CrossSectionWire.InformationCoefficients.of(r, method));
+    }
+
+    private static List<Integer> horizonsParam(Context ctx) {
+        List<String> items = Requests.listParam(ctx, "horizons");
+        if (items == null) {
+            return List.of(1);
+        }
+        if (items.isEmpty() || items.size() > InformationCoefficients.MAX_HORIZONS) {
+            throw ApiProblem.badRequest("Query parameter 'horizons' lists 1 to " + InformationCoefficients.MAX_HORIZONS
+                    + " horizons separated by commas, as horizons=1,3,12; got " + items.size() + ".");
+        }
+        List<Integer> out = new ArrayList<>();
+        for (String item : items) {
+            int h;
+            try {
+                h = Integer.parseInt(item);
+            } catch (NumberFormatException e) {
+                throw ApiProblem.badRequest("Query parameter 'horizons' must list whole numbers of grid periods from 1 to "
+                        + InformationCoefficients.MAX_HORIZON + "; got '" + item + "'.");
+            }
+            if (h < 1 || h > InformationCoefficients.MAX_HORIZON) {
+                throw ApiProblem.badRequest("Each horizon must be from 1 to " + InformationCoefficients.MAX_HORIZON + " grid periods; got " + h + ".");
+            }
+            if (out.contains(h)) {
+                throw ApiProblem.badRequest("Query parameter 'horizons' lists " + h + " twice; list each horizon once.");
+            }
+            out.add(h);
+        }
+        return out;
+    }
+
+    /** {@code GET /v1/factors/{factor}/portfolios?from&to&frequency&form&version}. */
+    void portfolios(Context ctx) {
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
+        boolean csv = Responses.wantsCsv(ctx);
+        if (Responses.notModified(ctx, v, csv)) {
+            return;
+        }
+        FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), window.cumulative());
+        if (csv) {
+            StringBuilder sb = new StringBuilder("date");
+            table.names().forEach(n -> sb.append(',').append(Responses.csvText(n)));
+            sb.append('\n');
+            for (int t = 0; t < table.dates().size(); t++) {
+                sb.append(table.dates().get(t));
+                for (double[] row : table.returns()) {
+                    sb.append(',').append(Responses.csvNumber(row[t]));
+                }
+                sb.append('\n');
+            }
+            Responses.csv(ctx, sb.toString());
+            return;
+        }
+        Map<String, double[]> returns = new LinkedHashMap<>();
+        for (int k = 0; k < table.names().size(); k++) {
+            returns.put(table.names().get(k), table.returns().get(k));
+        }
+        Json.respond(ctx, new CrossSectionWire.Portfolios(v.name(), v.version(), table.frequency().wireName(), window.form(),
+                table.names(), table.dates(), returns));
     }
 
     /** {@code POST /v1/fama-macbeth} (read scope). */

@@ -24,6 +24,31 @@ final class CrossSectionWire {
         }
     }
 
+    record Portfolios(String factor, int version, String frequency, String form, List<String> portfolios,
+                      List<LocalDate> dates, Map<String, double[]> returns) {
+    }
+
+    record IcSummary(int horizon, int n, double mean, double stdev, @JsonProperty("ic_ir") double icIr,
+                     @JsonProperty("t_stat") double tStat, @JsonProperty("nw_t_stat") double nwTStat,
+                     @JsonProperty("nw_lags") int nwLags, @JsonProperty("share_positive") double sharePositive) {
+    }
+
+    record InformationCoefficients(String factor, int version, String method, List<Integer> horizons, List<LocalDate> dates,
+                                   Map<String, double[]> ic, List<IcSummary> summary) {
+        static InformationCoefficients of(dev.winnow.research.InformationCoefficients.Result r, String method) {
+            Map<String, double[]> ic = new LinkedHashMap<>();
+            List<IcSummary> summary = new java.util.ArrayList<>();
+            for (int k = 0; k < r.horizons().size(); k++) {
+                int h = r.horizons().get(k);
+                ic.put(String.valueOf(h), r.ic().get(k));
+                EstimateSeries s = r.summary().get(k);
+                summary.add(new IcSummary(h, s.n(), s.mean(), s.stdev(), s.meanOverStdev(), s.tStat(), s.nwTStat(), s.nwLags(),
+                        s.sharePositive()));
+            }
+            return new InformationCoefficients(r.version().name(), r.version().version(), method, r.horizons(), r.dates(), ic, summary);
+        }
+    }
+
     record SlopeSeries(List<LocalDate> dates, Map<String, double[]> slopes) {
     }
 

@@ -90,18 +90,14 @@ final class EvidenceRoutes {
     void themeReturns(Context ctx) {
         String theme = ctx.pathParam("theme");
         List<FactorVersionRecord> members = themes.members(theme);
-        LocalDate from = Requests.dateParam(ctx, "from");
-        LocalDate to = Requests.dateParam(ctx, "to");
-        Requests.checkRange(from, to);
-        Frequency target = SeriesRequest.frequencyParam(ctx);
-        String form = Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period");
+        SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         boolean csv = Responses.wantsCsv(ctx);
         StringBuilder key = new StringBuilder("theme:").append(theme);
         members.forEach(v -> key.append(';').append(v.factorId()).append('.').append(v.version()).append('.').append(v.dataVersion()));
         if (Responses.notModified(ctx, key.toString(), csv)) {
             return;
         }
-        Themes.Composite composite = themes.composite(theme, members, from, to, target, form.equals("cumulative"));
+        Themes.Composite composite = themes.composite(theme, members, window.from(), window.to(), window.target(), window.cumulative());
         ReturnSeries series = composite.series();
         if (csv) {
             Responses.csv(ctx, "date,return", series.dates(), series.values());
@@ -111,7 +107,7 @@ final class EvidenceRoutes {
         out.put("theme", theme);
         out.put("factors", composite.factors());
         out.put("frequency", composite.frequency().wireName());
-        out.put("form", form);
+        out.put("form", window.form());
         out.put("dates", series.dates());
         out.put("returns", series.values());
         Json.respond(ctx, out);

@@ -38,6 +38,20 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
         return new SeriesRequest(v, leg, from, to, frequencyParam(ctx));
     }
 
+    /** {@code from}/{@code to}, {@code frequency} and {@code form} of a series endpoint that is not one factor's spread. */
+    record Window(LocalDate from, LocalDate to, Frequency target, String form) {
+        static Window of(Context ctx) {
+            LocalDate from = Requests.dateParam(ctx, "from");
+            LocalDate to = Requests.dateParam(ctx, "to");
+            Requests.checkRange(from, to);
+            return new Window(from, to, frequencyParam(ctx), Requests.choiceParam(ctx, "form", List.of("period", "cumulative"), "period"));
+        }
+
+        boolean cumulative() {
+            return form.equals("cumulative");
+        }
+    }
+
     static Frequency frequencyParam(Context ctx) {
         String f = Requests.choiceParam(ctx, "frequency", FREQUENCIES, "native");
         return f.equals("native") ? null : Frequency.fromWireName(f);
@@ -45,14 +59,18 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
 
     /** The stored series with the date range and frequency of the request applied. */
     Resolved load(FactorStore factors) {
-        ReturnSeries stored = factors.series(version, leg);
+        return convert(version.name(), factors.series(version, leg), from, to, targetFrequency);
+    }
+
+    /** A stored series (named {@code name} in problems) with a date range and a target frequency (null: native) applied. */
+    static Resolved convert(String name, ReturnSeries stored, LocalDate from, LocalDate to, Frequency targetFrequency) {
         Frequency nativeFrequency = Frequency.fromDates(List.of(stored.dates()));
         ReturnSeries ranged = stored.between(from, to);
         if (targetFrequency == null || targetFrequency == nativeFrequency) {
             return new Resolved(ranged, nativeFrequency);
         }
         if (targetFrequency.compareTo(nativeFrequency) < 0) {
-            throw ApiProblem.badRequest("Factor '" + version.name() + "' is " + nativeFrequency.wireName()
+            throw ApiProblem.badRequest("'" + name + "' is " + nativeFrequency.wireName()
                     + "; it cannot be converted to the finer frequency '" + targetFrequency.wireName() + "'.");
         }
         return new Resolved(FrequencyConversion.compound(ranged, targetFrequency), targetFrequency);

@@ -32,7 +32,7 @@ public final class Main {
         Winnow winnow;
         try {
             winnow = Winnow.start(config);
-        } catch (Winnow.DataDirectoryNotWritableException e) {
+        } catch (Winnow.DataDirectoryNotWritableException | Winnow.StoreInUseException e) {
             System.err.println("winnow: " + e.getMessage());
             System.exit(1);
             return;

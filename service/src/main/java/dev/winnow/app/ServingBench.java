@@ -58,7 +58,9 @@ final class ServingBench {
         Process nginx = null;
         try {
             Path store = dir.resolve("store");
-            try (Winnow winnow = Winnow.start(new Config(0, "127.0.0.1", store, Config.defaultH2Url(store), TOKEN))) {
+            // WINNOW_DB_URL names an empty PostgreSQL database (or schema) to measure there; else a temporary H2 store
+            String dbUrl = System.getenv().getOrDefault("WINNOW_DB_URL", "").isBlank() ? Config.defaultH2Url(store) : System.getenv("WINNOW_DB_URL");
+            try (Winnow winnow = Winnow.start(new Config(0, "127.0.0.1", store, dbUrl, TOKEN))) {
                 port = winnow.port();
                 SplittableRandom random = new SplittableRandom(300);
                 List<LocalDate> months = new ArrayList<>();

@@ -8,12 +8,15 @@ import dev.winnow.store.ChangeFeed;
 import dev.winnow.jobs.JobHandler;
 import dev.winnow.jobs.JobKinds;
 import dev.winnow.jobs.JobQueue;
+import dev.winnow.jobs.JobResources;
 import dev.winnow.jobs.JobWorker;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
 import dev.winnow.research.LoadingsRefresh;
@@ -24,6 +27,7 @@ import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
 import dev.winnow.research.TrialLibrary;
 import dev.winnow.store.Database;
+import dev.winnow.store.PostgresChangeFeed;
 import dev.winnow.store.LocalChangeFeed;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FamilyStore;
@@ -45,7 +49,9 @@ import java.util.Map;
 public final class Winnow implements AutoCloseable {
     private static final Logger LOG = LoggerFactory.getLogger(Winnow.class);
 
+    private final ServiceMetrics metrics;
     private final Database database;
+    private final ChangeFeed changes;
     private final Jdbi jdbi;
     private final JobWorker worker;
     private final Javalin http;
@@ -55,24 +61,34 @@ public final class Winnow implements AutoCloseable {
 
     private Winnow(Config config) throws IOException {
         requireWritable(config.dataDir());
-        this.database = Database.open(config.dbUrl(), config.dbPool(), null);
+        this.metrics = new ServiceMetrics();
+        this.database = openStore(config, metrics);
         this.jdbi = database.jdbi();
-        ChangeFeed changes = new LocalChangeFeed();
+        boolean embedded = database.dialect() == Database.Dialect.H2;
+        // one process on the embedded store; on PostgreSQL every instance hears the others' commits
+        this.changes = embedded ? new LocalChangeFeed() : PostgresChangeFeed.start(database);
         TokenStore tokens = new TokenStore(jdbi, changes);
         JobStore jobs = new JobStore(jdbi);
         PanelStore panels = new PanelStore(jdbi);
         FactorStore factors = new FactorStore(jdbi, changes);
+        metrics.watchQueue(jobs);
+        metrics.watchSeriesCache(factors);
         LoadingsStore loadings = new LoadingsStore(jdbi);
-        UploadSpool spool = new UploadSpool(config.dataDir(), config.limits());
+        UploadSpool spool = new UploadSpool(config.dataDir(), config.limits(), embedded ? null : new dev.winnow.store.SpoolStore(jdbi));
 
-        int discarded = panels.discardAllStaging();
-        int requeued = jobs.requeueInterrupted();
-        if (discarded + requeued > 0) {
-            LOG.info("recovered from an interrupted run: {} staged upload(s) discarded, {} job(s) queued again", discarded, requeued);
+        if (embedded) {
+            // the embedded store is this process's alone (its file lock refuses a second one), so whatever is
+            // staged or running was left by a crash; on a shared store those belong to other instances, and a dead
+            // worker's jobs come back when their leases expire
+            int discarded = panels.discardAllStaging();
+            int requeued = jobs.requeueInterrupted();
+            if (discarded + requeued > 0) {
+                LOG.info("recovered from an interrupted run: {} staged upload(s) discarded, {} job(s) queued again", discarded, requeued);
+            }
         }
         this.generatedAdminToken = bootstrapAdmin(tokens, config.adminToken());
 
-        this.queue = new JobQueue(jobs);
+        this.queue = new JobQueue(jobs, new JobResources(factors, panels));
         int removed = removeOrphanedSpoolFiles(jobs, spool);
         if (removed > 0) {
             LOG.info("removed {} spooled upload(s) that were never acknowledged", removed);
@@ -85,7 +101,11 @@ public final class Winnow implements AutoCloseable {
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
         Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
-        this.worker = new JobWorker(jobs, handlers);
+        Config.Instance instance = config.instance();
+        this.worker = instance.role().runsJobs()
+                ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()),
+                        metrics.jobObserver())
+                : null;
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
         Breadth breadth = new Breadth(panels, factors);
         TrialLibrary library = new TrialLibrary(factors);
@@ -93,8 +113,9 @@ public final class Winnow implements AutoCloseable {
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)),
-                () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port());
+                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
+                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
+                new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
     /** The store answers a read and the data directory keeps its free-space floor; the worker is alive and not stuck. */
@@ -106,6 +127,10 @@ public final class Winnow implements AutoCloseable {
             store = spool.hasMinimumFreeSpace() ? "ok" : "low_space";
         } catch (RuntimeException e) {
             store = "unavailable";
+        }
+        if (worker == null) { // WINNOW_ROLE=api: the jobs run on worker instances
+            String status = store.equals("unavailable") ? "unavailable" : store.equals("low_space") ? "degraded" : "ok";
+            return new Health(status, store, "none", queue);
         }
         JobWorker.State state = worker.state();
         if (state == JobWorker.State.WAITING_FOR_STORE) {
@@ -140,9 +165,43 @@ public final class Winnow implements AutoCloseable {
 
     public static Winnow start(Config config) throws IOException {
         Winnow w = new Winnow(config);
-        w.worker.start(w.queue);
+        if (w.worker != null) {
+            w.worker.start(w.queue);
+        }
         w.http.start();
         return w;
+    }
+
+    /** Opens the store; an embedded store that another process holds is refused with one line naming the directory. */
+    private static Database openStore(Config config, ServiceMetrics metrics) {
+        try {
+            return Database.open(config.dbUrl(), config.dbPool(), metrics.registry());
+        } catch (RuntimeException e) {
+            if (Database.isEmbeddedStoreInUse(e)) {
+                throw new StoreInUseException("the store in " + config.dataDir() + " is in use by another Winnow process; "
+                        + "the embedded store serves one process at a time (stop the other, or run several on PostgreSQL)");
+            }
+            throw e;
+        }
+    }
+
+    /** The embedded store is open in another process. */
+    public static final class StoreInUseException extends RuntimeException {
+        StoreInUseException(String message) {
+            super(message);
+        }
+    }
+
+    /** This process's name in the job table: host, process id and a random suffix, unique among instances. */
+    private static String workerName() {
+        String host;
+        try {
+            host = java.net.InetAddress.getLocalHost().getHostName();
+        } catch (java.net.UnknownHostException e) {
+            host = "unknown-host";
+        }
+        String name = host + "/" + ProcessHandle.current().pid() + "/" + Long.toHexString(new java.security.SecureRandom().nextLong() & 0xffffffL);
+        return name.length() > 100 ? name.substring(name.length() - 100) : name;
     }
 
     /**
@@ -152,7 +211,7 @@ public final class Winnow implements AutoCloseable {
     private static int removeOrphanedSpoolFiles(JobStore jobs, UploadSpool spool) throws IOException {
         java.util.Set<String> referenced = new java.util.HashSet<>();
         for (String kind : java.util.List.of(JobKinds.PANEL_UPLOAD, JobKinds.SERIES_UPLOAD)) {
-            for (JobStore.JobRecord job : jobs.queued(kind)) {
+            for (JobStore.JobRecord job : jobs.unfinished(kind)) {
                 referenced.add(String.valueOf(JsonText.readMap(job.params()).get("file")));
             }
         }
@@ -165,11 +224,11 @@ public final class Winnow implements AutoCloseable {
      */
     private static int requeueOrphanedBuilds(FactorStore factors, JobStore jobs, JobQueue queue) {
         java.util.Set<String> queued = new java.util.HashSet<>();
-        for (JobStore.JobRecord job : jobs.queued(JobKinds.FACTOR_BUILD)) {
+        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FACTOR_BUILD)) {
             Map<String, Object> params = JsonText.readMap(job.params());
             queued.add(params.get("factor") + "#" + params.get("version"));
         }
-        for (JobStore.JobRecord job : jobs.queued(JobKinds.FAMILY_BUILD)) {
+        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FAMILY_BUILD)) {
             @SuppressWarnings("unchecked")
             java.util.List<Map<String, Object>> versions = (java.util.List<Map<String, Object>>) JsonText.readMap(job.params()).get("versions");
             for (Map<String, Object> v : versions) {
@@ -191,6 +250,15 @@ public final class Winnow implements AutoCloseable {
      * a new one is made; only its hash is stored and the token itself is returned to be printed once.
      */
     private static String bootstrapAdmin(TokenStore tokens, String configured) {
+        try {
+            return bootstrapAdminOnce(tokens, configured);
+        } catch (RuntimeException e) {
+            // another instance starting at the same moment inserted it first: what it stored is what we wanted
+            return bootstrapAdminOnce(tokens, configured);
+        }
+    }
+
+    private static String bootstrapAdminOnce(TokenStore tokens, String configured) {
         if (configured != null) {
             String hash = Authenticator.hash(configured);
             if (tokens.all().stream().noneMatch(t -> t.tokenHash().equals(hash))) {
@@ -234,7 +302,17 @@ public final class Winnow implements AutoCloseable {
     @Override
     public void close() {
         http.stop();
-        worker.close();
+        if (worker != null) {
+            worker.close();
+        }
+        if (changes instanceof AutoCloseable closeable) {
+            try {
+                closeable.close();
+            } catch (Exception e) {
+                LOG.warn("could not close the change feed: {}", e.getMessage());
+            }
+        }
         database.close();
+        metrics.close();
     }
 }

@@ -116,7 +116,7 @@ public record TimeChart(String yLabel, ValueAxis.Format format, boolean log, Lis
         final long d0 = day0;
         final long d1 = day1;
         java.util.function.DoubleUnaryOperator xOfDay = day -> plotX + (day - d0) / (double) (d1 - d0) * plotW;
-        java.util.function.DoubleUnaryOperator yOf = v -> plotY + plotH - axis.fraction(v) * plotH;
+        java.util.function.DoubleUnaryOperator yOf = v -> axis.y(v, plotY, plotH);
 
         Svg svg = frame.begin("time");
         svg.open("g", "id", "plot", "data-plot", Svg.num(plotX) + " " + Svg.num(plotY) + " " + Svg.num(plotW) + " " + Svg.num(plotH),
@@ -132,17 +132,7 @@ public record TimeChart(String yLabel, ValueAxis.Format format, boolean log, Lis
             svg.text("title", b.label()).close("rect").newline();
         }
 
-        // value grid and ticks
-        svg.open("g", "class", "y-axis").newline();
-        for (ValueAxis.Tick t : axis.ticks()) {
-            double y = yOf.applyAsDouble(t.value());
-            svg.empty("line", "x1", plotX, "x2", plotX + plotW, "y1", y, "y2", y, "stroke", Palette.GRID, "stroke-width", "1");
-            svg.text("text", t.label(), "class", "y-tick", "data-value", String.valueOf(t.value()), "x", plotX - 6, "y", y + 4,
-                    "text-anchor", "end", "fill", Palette.BLACK).newline();
-        }
-        svg.text("text", yLabel, "class", "axis-label", "transform", "translate(16 " + Svg.num(plotY + plotH / 2) + ") rotate(-90)",
-                "text-anchor", "middle", "fill", Palette.BLACK).newline();
-        svg.close("g").newline();
+        axis.draw(svg, plotX, plotY, plotW, plotH, yLabel);
 
         // date ticks
         int maxDateTicks = Math.max(2, (int) (plotW / 80));

@@ -118,6 +118,25 @@ public record ValueAxis(boolean log, double min, double max, List<Tick> ticks) {
         return (s.scale() < 0 ? s.setScale(0) : s).toPlainString().replace('-', '\u2212');
     }
 
+    /** Where {@code value} is drawn in a plot area from plotY (top) down plotH pixels. */
+    double y(double value, double plotY, double plotH) {
+        return plotY + plotH - fraction(value) * plotH;
+    }
+
+    /** Grid lines and labelled ticks across the plot area, and the axis label rotated along its left side. */
+    void draw(Svg svg, double plotX, double plotY, double plotW, double plotH, String label) {
+        svg.open("g", "class", "y-axis").newline();
+        for (Tick t : ticks) {
+            double y = y(t.value(), plotY, plotH);
+            svg.empty("line", "x1", plotX, "x2", plotX + plotW, "y1", y, "y2", y, "stroke", Palette.GRID, "stroke-width", "1");
+            svg.text("text", t.label(), "class", "y-tick", "data-value", String.valueOf(t.value()), "x", plotX - 6, "y", y + 4,
+                    "text-anchor", "end", "fill", Palette.BLACK).newline();
+        }
+        svg.text("text", label, "class", "axis-label", "transform", "translate(16 " + Svg.num(plotY + plotH / 2) + ") rotate(-90)",
+                "text-anchor", "middle", "fill", Palette.BLACK).newline();
+        svg.close("g").newline();
+    }
+
     /** The position of {@code value} between the domain ends, 0 at min and 1 at max. */
     double fraction(double value) {
         if (log) {

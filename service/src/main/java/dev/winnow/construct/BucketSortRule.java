@@ -2,53 +2,87 @@ package dev.winnow.construct;
 
 import dev.winnow.construct.FactorDefinition.Direction;
 import dev.winnow.stats.Quantiles;
+import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.List;
 
 /**
  * Single sort into B buckets. Breakpoints are the type-7 quantiles at j/B (j = 1..B-1) of the breakpoint rows'
  * signals; a security's bucket is 1 + the number of breakpoints its signal is strictly above, so ties at a
- * breakpoint go to the lower bucket. Holds the long bucket (index 0) and the short bucket (index 1) only.
+ * breakpoint go to the lower bucket. Holds every bucket, bucket j at index j-1; the long leg is the top bucket and
+ * the short leg the bottom one for high_minus_low (the reverse for low_minus_high), and every bucket is a stored
+ * portfolio named "1".."B".
  */
 final class BucketSortRule implements PortfolioRule {
     private final FactorDefinition def;
     private final int buckets;
     private final boolean capWeighted;
+    private final boolean highMinusLow;
 
     BucketSortRule(FactorDefinition def) {
         this.def = def;
         this.buckets = def.effectiveBuckets();
         this.capWeighted = PortfolioRule.capWeighted(def);
+        this.highMinusLow = def.effectiveDirection() == Direction.HIGH_MINUS_LOW;
     }
 
     @Override
     public Holding[] form(CrossSection rows, double[] signal) {
         int[] eligible = Eligibility.eligibleRows(def, rows, signal);
         int[] breakpointRows = Eligibility.breakpointRows(def, rows, eligible);
+        Holding[] held = new Holding[buckets];
         if (breakpointRows.length == 0) {
-            return new Holding[] {Holding.empty(), Holding.empty()};
+            Arrays.setAll(held, j -> Holding.empty());
+            return held;
         }
-        double[] sorted = Eligibility.sortedValues(signal, breakpointRows);
+        double[] cuts = cuts(signal, breakpointRows, buckets);
+        int[][] members = new int[buckets][eligible.length];
+        int[] counts = new int[buckets];
+        for (int i : eligible) {
+            int bucket = bucketOf(signal[i], cuts);
+            members[bucket - 1][counts[bucket - 1]++] = i;
+        }
+        for (int j = 0; j < buckets; j++) {
+            held[j] = Holding.of(rows, Arrays.copyOf(members[j], counts[j]), capWeighted);
+        }
+        return held;
+    }
+
+    /** The B-1 breakpoints: type-7 quantiles at j/B (j = 1..B-1) of the signal over {@code rows}. */
+    static double[] cuts(double[] signal, int[] rows, int buckets) {
+        double[] sorted = Eligibility.sortedValues(signal, rows);
         double[] cuts = new double[buckets - 1];
         for (int j = 1; j < buckets; j++) {
             cuts[j - 1] = Quantiles.type7Sorted(sorted, j / (double) buckets);
         }
-        int[] low = new int[eligible.length];
-        int[] high = new int[eligible.length];
-        int lows = 0;
-        int highs = 0;
-        for (int i : eligible) {
-            int bucket = bucketOf(signal[i], cuts);
-            if (bucket == 1) {
-                low[lows++] = i;
-            } else if (bucket == buckets) {
-                high[highs++] = i;
-            }
+        return cuts;
+    }
+
+    /**
+     * Every bucket of a sort of {@code rows} into B buckets on breakpoints from those same rows: members[j-1] holds
+     * the rows of bucket j, in the given order.
+     */
+    static int[][] bucketsOf(double[] signal, int[] rows, int buckets) {
+        double[] cuts = cuts(signal, rows, buckets);
+        int[][] members = new int[buckets][rows.length];
+        int[] counts = new int[buckets];
+        for (int row : rows) {
+            int j = bucketOf(signal[row], cuts) - 1;
+            members[j][counts[j]++] = row;
         }
-        Holding lowHolding = Holding.of(rows, Arrays.copyOf(low, lows), capWeighted);
-        Holding highHolding = Holding.of(rows, Arrays.copyOf(high, highs), capWeighted);
-        return def.effectiveDirection() == Direction.HIGH_MINUS_LOW
-                ? new Holding[] {highHolding, lowHolding}
-                : new Holding[] {lowHolding, highHolding};
+        for (int j = 0; j < buckets; j++) {
+            members[j] = Arrays.copyOf(members[j], counts[j]);
+        }
+        return members;
+    }
+
+    /** Buckets "1".."B", bucket j being sub-portfolio j-1 (the layout of this rule and of the within sort). */
+    static List<Portfolio> namedBuckets(int buckets) {
+        List<Portfolio> out = new ArrayList<>(buckets);
+        for (int j = 0; j < buckets; j++) {
+            out.add(new Portfolio(String.valueOf(j + 1), new int[] {j}));
+        }
+        return out;
     }
 
     static int bucketOf(double value, double[] cuts) {
@@ -63,11 +97,16 @@ final class BucketSortRule implements PortfolioRule {
 
     @Override
     public int[] longLeg() {
-        return new int[] {0};
+        return new int[] {highMinusLow ? buckets - 1 : 0};
     }
 
     @Override
     public int[] shortLeg() {
-        return new int[] {1};
+        return new int[] {highMinusLow ? 0 : buckets - 1};
+    }
+
+    @Override
+    public List<Portfolio> portfolios() {
+        return namedBuckets(buckets);
     }
 }

@@ -55,6 +55,7 @@ public final class CheckpointedBuild {
         EngineState state = resume;
         List<FactorObservation> observations = new ArrayList<>();
         List<Formation> formations = new ArrayList<>();
+        List<PortfolioObservation> portfolios = new ArrayList<>();
         List<Checkpoint> checkpoints = new ArrayList<>();
         int missing = 0;
         BuildResult last = null;
@@ -62,6 +63,7 @@ public final class CheckpointedBuild {
             last = FactorEngine.build(def, new PanelPrefix(panel, end), riskFree, signalFactors, state);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
+            portfolios.addAll(last.portfolioObservations());
             missing += last.periodsWithoutReturn();
             state = last.endState();
             checkpoints.add(new Checkpoint(state, observationsBefore + observations.size(), missingBefore + missing));
@@ -70,8 +72,9 @@ public final class CheckpointedBuild {
             last = FactorEngine.build(def, panel, riskFree, signalFactors, state);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
+            portfolios.addAll(last.portfolioObservations());
             missing += last.periodsWithoutReturn();
         }
-        return new Result(new BuildResult(observations, formations, last.endState(), missing), checkpoints);
+        return new Result(new BuildResult(observations, formations, last.endState(), missing, portfolios), checkpoints);
     }
 }

@@ -170,7 +170,7 @@ public final class FactorEngine {
         for (int i = 0; i < runs.size(); i++) {
             Run run = runs.get(i);
             BuildResult build = new BuildResult(run.observations, run.formations, run.stateAfter(dates.size() - 1),
-                    run.withoutReturn);
+                    run.withoutReturn, run.portfolioObservations);
             out.add(new CheckpointedBuild.Result(build, checkpoints.get(i)));
         }
         return out;
@@ -202,6 +202,14 @@ public final class FactorEngine {
         }
     }
 
+    /** The names of the portfolios a definition's builds store, in order (empty for market and external). */
+    public static List<String> portfolioNames(FactorDefinition def) {
+        if (def.method() == null || def.method() == FactorDefinition.Method.EXTERNAL) {
+            return List.of();
+        }
+        return PortfolioRule.of(def).portfolios().stream().map(PortfolioRule.Portfolio::name).toList();
+    }
+
     private static void checkResumable(FactorDefinition def, List<LocalDate> dates, EngineState state) {
         if (!state.definitionKey().equals(def.constructionKey())) {
             throw new IllegalArgumentException("resume state was built for another definition; rebuild from scratch");
@@ -230,6 +238,8 @@ public final class FactorEngine {
         private Holding[] book;
         private final List<FactorObservation> observations = new ArrayList<>();
         private final List<Formation> formations = new ArrayList<>();
+        private final List<PortfolioObservation> portfolioObservations = new ArrayList<>();
+        private final List<PortfolioRule.Portfolio> portfolios;
         private int withoutReturn;
 
         Run(FactorDefinition def, PanelSource panel, List<LocalDate> dates, ReturnSeries riskFree,
@@ -244,6 +254,7 @@ public final class FactorEngine {
             this.dates = dates;
             this.riskFree = riskFree == null ? null : byDate(riskFree);
             this.rule = PortfolioRule.of(def);
+            this.portfolios = rule.portfolios();
             this.calendar = new RebalanceCalendar(def.effectiveRebalance(), def.rebalanceMonth());
             this.lag = def.effectiveLag();
             this.shared = sharedSignals != null;
@@ -269,7 +280,7 @@ public final class FactorEngine {
             }
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
-            return new BuildResult(observations, formations, end, withoutReturn);
+            return new BuildResult(observations, formations, end, withoutReturn, portfolioObservations);
         }
 
         /** The state after processing grid dates 0..t (t = -1: none). */
@@ -394,6 +405,17 @@ public final class FactorEngine {
                 withoutReturn++;
             } else {
                 observations.add(new FactorObservation(rows.date(), spread, longLeg, shortLeg, spread - cost));
+            }
+            if (!portfolios.isEmpty()) {
+                double[] returns = new double[portfolios.size()];
+                boolean any = false;
+                for (int k = 0; k < returns.length; k++) {
+                    returns[k] = legMean(subReturns, portfolios.get(k).subs());
+                    any |= !Double.isNaN(returns[k]);
+                }
+                if (any) {
+                    portfolioObservations.add(new PortfolioObservation(rows.date(), returns));
+                }
             }
         }
 

@@ -29,6 +29,18 @@ interface PortfolioRule {
     /** Indices that make up the short leg; empty for a long-only factor. */
     int[] shortLeg();
 
+    /**
+     * The portfolios stored besides the legs, in order: each named and the equal-coefficient mean of some
+     * sub-portfolios (like a leg). Sort: buckets "1".."B"; size_sort: the six 2x3 portfolios; none otherwise.
+     */
+    default java.util.List<Portfolio> portfolios() {
+        return java.util.List.of();
+    }
+
+    /** A stored portfolio: its wire name and the sub-portfolios it averages. */
+    record Portfolio(String name, int[] subs) {
+    }
+
     static PortfolioRule of(FactorDefinition def) {
         return switch (def.method()) {
             case SORT -> def.within() != null ? new WithinGroupSortRule(def)

@@ -3,7 +3,9 @@ package dev.winnow.construct;
 import dev.winnow.construct.FactorDefinition.Direction;
 import dev.winnow.construct.FactorDefinition.Output;
 import dev.winnow.stats.Quantiles;
+import java.util.ArrayList;
 import java.util.Arrays;
+import java.util.List;
 
 /**
  * The 2x3 size and signal sort of Fama and French (1993), "Common risk factors in the returns on stocks and bonds",
@@ -11,10 +13,10 @@ import java.util.Arrays;
  * signal breakpoints: type-7 30th and 70th percentiles (low = at or below the 30th, high = above the 70th, neutral
  * otherwise), all computed on the breakpoint rows.
  * <ul>
- * <li>output SIGNAL: long (SH + BH)/2, short (SL + BL)/2 for high-minus-low (legs swapped for low-minus-high);
- * holds SH, BH, SL, BL in that order.</li>
- * <li>output SIZE: long (SL + SN + SH)/3, short (BL + BN + BH)/3; holds SL, SN, SH, BL, BN, BH.</li>
+ * <li>output SIGNAL: long (SH + BH)/2, short (SL + BL)/2 for high-minus-low (legs swapped for low-minus-high);</li>
+ * <li>output SIZE: long (SL + SN + SH)/3, short (BL + BN + BH)/3.</li>
  * </ul>
+ * Either output holds all six, SL, SN, SH, BL, BN, BH in that order, each a stored portfolio ({@link #NAMES}).
  */
 final class TwoByThreeRule implements PortfolioRule {
     private static final int LOW = 0;
@@ -56,10 +58,7 @@ final class TwoByThreeRule implements PortfolioRule {
                 six[cell] = Holding.of(rows, Arrays.copyOf(members[cell], counts[cell]), capWeighted);
             }
         }
-        if (sizeOutput) {
-            return six;
-        }
-        return new Holding[] {six[HIGH], six[3 + HIGH], six[LOW], six[3 + LOW]};
+        return six;
     }
 
     private static int groupOf(double value, double p30, double p70) {
@@ -72,16 +71,28 @@ final class TwoByThreeRule implements PortfolioRule {
     @Override
     public int[] longLeg() {
         if (sizeOutput) {
-            return new int[] {0, 1, 2};
+            return new int[] {LOW, NEUTRAL, HIGH};
         }
-        return highMinusLow ? new int[] {0, 1} : new int[] {2, 3};
+        return highMinusLow ? new int[] {HIGH, 3 + HIGH} : new int[] {LOW, 3 + LOW};
     }
 
     @Override
     public int[] shortLeg() {
         if (sizeOutput) {
-            return new int[] {3, 4, 5};
+            return new int[] {3 + LOW, 3 + NEUTRAL, 3 + HIGH};
         }
-        return highMinusLow ? new int[] {2, 3} : new int[] {0, 1};
+        return highMinusLow ? new int[] {LOW, 3 + LOW} : new int[] {HIGH, 3 + HIGH};
+    }
+
+    /** The six portfolios in the order held: small_low, small_mid, small_high, big_low, big_mid, big_high. */
+    static final List<String> NAMES = List.of("small_low", "small_mid", "small_high", "big_low", "big_mid", "big_high");
+
+    @Override
+    public List<Portfolio> portfolios() {
+        List<Portfolio> out = new ArrayList<>(6);
+        for (int cell = 0; cell < 6; cell++) {
+            out.add(new Portfolio(NAMES.get(cell), new int[] {cell}));
+        }
+        return out;
     }
 }

@@ -12,17 +12,20 @@ import java.util.TreeMap;
  * in each group, the type-7 quantiles at j/B of that group's eligible signals, ties to the lower bucket (as in
  * {@link BucketSortRule}). Securities with an empty label are not eligible, and a group with fewer eligible securities
  * than B sits out the formation. Bucket j pools the members of bucket j of every group, weighted by
- * {@code weighting} across the pooled members. Holds the long bucket (index 0) and the short bucket (index 1).
+ * {@code weighting} across the pooled members. Holds every pooled bucket, bucket j at index j-1 (stored as portfolio
+ * "j"); the legs are the extreme buckets as in {@link BucketSortRule}.
  */
-final class WithinGroupSortRule implements LongShortRule {
+final class WithinGroupSortRule implements PortfolioRule {
     private final FactorDefinition def;
     private final int buckets;
     private final boolean capWeighted;
+    private final boolean highMinusLow;
 
     WithinGroupSortRule(FactorDefinition def) {
         this.def = def;
         this.buckets = def.effectiveBuckets();
         this.capWeighted = PortfolioRule.capWeighted(def);
+        this.highMinusLow = def.effectiveDirection() == Direction.HIGH_MINUS_LOW;
     }
 
     @Override
@@ -34,28 +37,39 @@ final class WithinGroupSortRule implements LongShortRule {
                 groups.computeIfAbsent(labels[i], k -> new ArrayList<>()).add(i);
             }
         }
-        int[] low = new int[rows.size()];
-        int[] high = new int[rows.size()];
-        int lows = 0;
-        int highs = 0;
+        int[][] pooled = new int[buckets][rows.size()];
+        int[] counts = new int[buckets];
         for (List<Integer> group : groups.values()) {
             if (group.size() < buckets) {
                 continue;
             }
-            BucketEnds ends = BucketEnds.of(signal, group.stream().mapToInt(Integer::intValue).toArray(), buckets);
-            System.arraycopy(ends.low(), 0, low, lows, ends.low().length);
-            lows += ends.low().length;
-            System.arraycopy(ends.high(), 0, high, highs, ends.high().length);
-            highs += ends.high().length;
+            int[][] members = BucketSortRule.bucketsOf(signal, group.stream().mapToInt(Integer::intValue).toArray(), buckets);
+            for (int j = 0; j < buckets; j++) {
+                System.arraycopy(members[j], 0, pooled[j], counts[j], members[j].length);
+                counts[j] += members[j].length;
+            }
         }
-        int[] lowRows = Arrays.copyOf(low, lows);
-        int[] highRows = Arrays.copyOf(high, highs);
-        Arrays.sort(lowRows);
-        Arrays.sort(highRows);
-        Holding lowHolding = Holding.of(rows, lowRows, capWeighted);
-        Holding highHolding = Holding.of(rows, highRows, capWeighted);
-        return def.effectiveDirection() == Direction.HIGH_MINUS_LOW
-                ? new Holding[] {highHolding, lowHolding}
-                : new Holding[] {lowHolding, highHolding};
+        Holding[] held = new Holding[buckets];
+        for (int j = 0; j < buckets; j++) {
+            int[] bucketRows = Arrays.copyOf(pooled[j], counts[j]);
+            Arrays.sort(bucketRows);
+            held[j] = Holding.of(rows, bucketRows, capWeighted);
+        }
+        return held;
+    }
+
+    @Override
+    public int[] longLeg() {
+        return new int[] {highMinusLow ? buckets - 1 : 0};
+    }
+
+    @Override
+    public int[] shortLeg() {
+        return new int[] {highMinusLow ? 0 : buckets - 1};
+    }
+
+    @Override
+    public List<Portfolio> portfolios() {
+        return BucketSortRule.namedBuckets(buckets);
     }
 }

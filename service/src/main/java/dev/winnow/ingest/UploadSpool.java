@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.store.Limits;
+import dev.winnow.store.SpoolStore;
 import dev.winnow.store.StorageFaults;
 
 import java.io.FilterInputStream;
@@ -12,6 +13,9 @@ import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
 import java.nio.file.StandardOpenOption;
+import java.time.Duration;
+import java.time.OffsetDateTime;
+import java.time.ZoneOffset;
 import java.util.UUID;
 import java.util.zip.GZIPInputStream;
 
@@ -22,24 +26,41 @@ import java.util.zip.GZIPInputStream;
  * <p>Every upload is bounded ({@link Limits}): it is refused before a byte is written while the data directory's free
  * space is below {@code minFreeBytes} or would fall below it with the declared length, and stopped as soon as the
  * bytes received, or the decoded bytes of a gzip body, pass {@code maxUploadBytes}. A refused upload leaves no file.
+ *
+ * <p>On a shared store (PostgreSQL) a body that passed those checks is then copied into the database
+ * ({@link SpoolStore}), committed before the 202, and the local file removed, so a worker on another machine can
+ * read it without a shared file system; its reference is {@code db:<id>}. A job reads a body through
+ * {@link #resolve}: a spooled file as it is, a stored body copied once to a local file of the job's instance,
+ * which {@link #delete} removes with the body.
  */
 public final class UploadSpool {
     private static final int BUFFER = 1 << 16;
     /** Free space is checked again after every this many bytes written. */
     private static final long SPACE_CHECK_EVERY = 16L << 20;
 
+    private static final String STORED = "db:";
+    /** How old an unreferenced stored body must be before start-up removes it: another instance may be queueing it. */
+    private static final Duration STORED_ORPHAN_AGE = Duration.ofHours(1);
+
     private final Path dataDir;
     private final Path dir;
     private final Limits limits;
+    private final SpoolStore store;
 
     public UploadSpool(Path dataDir) {
         this(dataDir, Limits.DEFAULTS);
     }
 
     public UploadSpool(Path dataDir, Limits limits) {
+        this(dataDir, limits, null);
+    }
+
+    /** Bodies kept in the store when {@code store} is not null. */
+    public UploadSpool(Path dataDir, Limits limits, SpoolStore store) {
         this.dataDir = dataDir;
         this.dir = dataDir.resolve("spool");
         this.limits = limits;
+        this.store = store;
     }
 
     /** The upload passed {@link Limits#maxUploadBytes()}, counted as received or as decoded. */
@@ -101,6 +122,13 @@ public final class UploadSpool {
                 channel.force(true);
             } catch (IOException e) {
                 throw unwritable(e);
+            }
+            if (store != null) {
+                String id = UUID.randomUUID().toString();
+                try (InputStream local = Files.newInputStream(file)) {
+                    store.write(id, local);
+                }
+                return new Spooled(STORED + id, copy.written); // the local file goes in the finally block
             }
             kept = true;
             return new Spooled(dataDir.relativize(file).toString(), copy.written);
@@ -243,31 +271,87 @@ public final class UploadSpool {
         }
     }
 
-    public Path resolve(String relative) {
-        return dataDir.resolve(relative);
+    /**
+     * The body a job refers to as a local file: a spooled file as it is; a body in the store copied once to a local
+     * file of this instance, which {@link #delete} removes with the body (and start-up, after a crash).
+     */
+    public Path resolve(String reference) throws IOException {
+        if (!reference.startsWith(STORED)) {
+            return dataDir.resolve(reference);
+        }
+        if (store == null) {
+            throw new IOException("the upload body " + reference + " is in a database spool this instance does not use");
+        }
+        Path copy = localCopy(reference);
+        if (Files.exists(copy)) {
+            return copy;
+        }
+        Files.createDirectories(copy.getParent());
+        Path partial = copy.resolveSibling(copy.getFileName() + ".partial");
+        try (java.io.OutputStream out = new java.io.BufferedOutputStream(Files.newOutputStream(partial), BUFFER)) {
+            if (!store.copyTo(reference.substring(STORED.length()), out)) {
+                throw new IOException("the spooled upload body is missing from the store");
+            }
+        } catch (IOException | RuntimeException e) {
+            Files.deleteIfExists(partial);
+            throw e;
+        }
+        Files.move(partial, copy, java.nio.file.StandardCopyOption.REPLACE_EXISTING);
+        return copy;
     }
 
-    public void delete(String relative) {
-        if (relative == null) {
+    private Path localCopy(String reference) {
+        return dataDir.resolve("spool-work").resolve(reference.substring(STORED.length()) + ".upload");
+    }
+
+    public void delete(String reference) {
+        if (reference == null) {
             return;
         }
         try {
-            Files.deleteIfExists(resolve(relative));
+            if (reference.startsWith(STORED)) {
+                Files.deleteIfExists(localCopy(reference));
+                if (store != null) {
+                    store.delete(reference.substring(STORED.length()));
+                }
+                return;
+            }
+            Files.deleteIfExists(dataDir.resolve(reference));
         } catch (IOException e) {
             // a leftover spool file wastes disk but is harmless
         }
     }
 
-    /** Deletes spool files whose relative path is not in {@code referenced}; returns how many. */
+    /**
+     * Deletes spooled bodies whose reference is not in {@code referenced}; returns how many. Files always (the disk
+     * spool is this instance's own; give every instance its own WINNOW_DATA_DIR), bodies in the store only when older
+     * than an hour, since another instance may have stored one a moment ago and not yet queued its job. Local copies
+     * left by a crash go too.
+     */
     public int removeUnreferenced(java.util.Set<String> referenced) throws IOException {
-        if (!Files.isDirectory(dir)) {
-            return 0;
-        }
         int removed = 0;
-        try (var files = Files.list(dir)) {
-            for (Path file : (Iterable<Path>) files::iterator) {
-                if (!referenced.contains(dataDir.relativize(file).toString())) {
+        if (Files.isDirectory(dir)) {
+            try (var files = Files.list(dir)) {
+                for (Path file : (Iterable<Path>) files::iterator) {
+                    if (!referenced.contains(dataDir.relativize(file).toString())) {
+                        Files.deleteIfExists(file);
+                        removed++;
+                    }
+                }
+            }
+        }
+        Path work = dataDir.resolve("spool-work");
+        if (Files.isDirectory(work)) {
+            try (var files = Files.list(work)) {
+                for (Path file : (Iterable<Path>) files::iterator) {
                     Files.deleteIfExists(file);
+                }
+            }
+        }
+        if (store != null) {
+            for (String id : store.storedBefore(OffsetDateTime.now(ZoneOffset.UTC).minus(STORED_ORPHAN_AGE))) {
+                if (!referenced.contains(STORED + id)) {
+                    store.delete(id);
                     removed++;
                 }
             }

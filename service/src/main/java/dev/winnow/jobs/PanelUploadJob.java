@@ -61,6 +61,7 @@ public final class PanelUploadJob implements JobHandler {
         long panelId = panels.createPanelIfAbsent(panelName);
 
         Optional<List<LocalDate>> already = panels.committedUploadDates(job.id());
+        panels.discardStagingOfJob(job.id());
         Counters counters;
         List<LocalDate> dates;
         if (already.isPresent()) {

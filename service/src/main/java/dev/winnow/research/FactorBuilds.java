@@ -8,12 +8,14 @@ import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorEngine;
 import dev.winnow.construct.Holdings;
 import dev.winnow.construct.FactorObservation;
+import dev.winnow.construct.PortfolioObservation;
 import dev.winnow.construct.Formation;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.Replaced;
 import dev.winnow.store.FactorStore.StoredBuild;
+import dev.winnow.store.FactorStore.StoredPortfolioReturn;
 import dev.winnow.store.FactorStore.StoredCheckpoint;
 import dev.winnow.store.FactorStore.StoredReturn;
 import dev.winnow.store.FactorStore.StoredTurnover;
@@ -225,7 +227,22 @@ public final class FactorBuilds {
                     c.periodsWithoutReturn(), c.state().toBytes()));
         }
         factors.saveBuild(v.factorId(), v.version(), new StoredBuild(toStored(result.observations()),
-                toStoredTurnover(result.formations()), checkpoints, result.endState().toBytes(), JsonText.write(report)), replaced);
+                toStoredTurnover(result.formations()), checkpoints, result.endState().toBytes(), JsonText.write(report),
+                toStoredPortfolios(FactorEngine.portfolioNames(definition(v)), result.portfolioObservations())), replaced);
+    }
+
+    /** One row per portfolio and date with a return (a NaN portfolio return is no row). */
+    private static List<StoredPortfolioReturn> toStoredPortfolios(List<String> names, List<PortfolioObservation> observations) {
+        List<StoredPortfolioReturn> out = new ArrayList<>(observations.size() * names.size());
+        for (PortfolioObservation o : observations) {
+            for (int k = 0; k < names.size(); k++) {
+                double r = o.returnOf(k);
+                if (!Double.isNaN(r)) {
+                    out.add(new StoredPortfolioReturn(o.date(), names.get(k), r));
+                }
+            }
+        }
+        return out;
     }
 
     /** The build report: counts over the whole series, the ones before this run given. */

@@ -96,6 +96,9 @@ public final class FactorDefinitions {
             problems.add("risk_free cannot name the factor itself");
         } else if (def.riskFree() != null && factors.current(def.riskFree()).isEmpty()) {
             problems.add("risk_free names factor '" + def.riskFree() + "', which does not exist; define and upload it first");
+        } else if (def.riskFree() != null && reads(def.riskFree(), name, new java.util.HashSet<>())) {
+            problems.add("risk_free: factor '" + def.riskFree() + "' reads '" + name + "' itself (through its risk_free or signal),"
+                    + " so this would be a cycle");
         }
         if (def.signal() != null) {
             checkSignalFactors(name, def.signal(), "signal", problems);

@@ -1,6 +1,7 @@
 package dev.winnow.research;
 
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorEngine;
 import dev.winnow.research.TrialLibrary.Snapshot;
 import dev.winnow.research.TrialLibrary.Trial;
 import dev.winnow.stats.Correlations;
@@ -8,6 +9,8 @@ import dev.winnow.stats.EqualWeightComposite;
 import dev.winnow.stats.EvidenceVerdicts;
 import dev.winnow.stats.EvidenceVerdicts.Section;
 import dev.winnow.stats.LiveRecord;
+import dev.winnow.stats.Monotonicity;
+import dev.winnow.stats.Verdict;
 import dev.winnow.stats.MonthlyBasis;
 import dev.winnow.stats.PeriodStatistics;
 import dev.winnow.stats.ReturnSeries;
@@ -65,8 +68,62 @@ public final class FactorEvidence {
         text.put("text", rationale);
         out.put("rationale", EvidenceJson.section(text, EvidenceVerdicts.rationale(rationale), null));
         out.put("redundancy", redundancy(monthly, against, unavailable));
+        out.put("monotonicity", monotonicity(trial, monthly, unavailable));
         out.put("live", live(trial, monthly, unavailable));
         return out;
+    }
+
+    /**
+     * Monotonicity across the buckets of a sort factor ({@link Monotonicity}) on the monthly basis; other methods have
+     * no buckets and get not_enough_data.
+     */
+    private Map<String, Object> monotonicity(Trial trial, ReturnSeries monthly, String unavailable) {
+        FactorDefinition def = trial.definition();
+        Map<String, Object> numbers = new LinkedHashMap<>();
+        numbers.put("buckets", List.of());
+        numbers.put("steps", List.of());
+        numbers.put("steps_in_direction", 0);
+        numbers.put("min_step_t", Double.NaN);
+        numbers.put("rank_correlation", Double.NaN);
+        if (def == null || def.method() != FactorDefinition.Method.SORT) {
+            return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(),
+                    "Only sort factors have buckets to compare; this is a " + trial.version().method() + " factor."), unavailable);
+        }
+        if (unavailable != null) {
+            return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(), unavailable), unavailable);
+        }
+        Map<String, ReturnSeries> stored = factors.portfolios(trial.version().factorId(), trial.version().version());
+        List<ReturnSeries> buckets = new ArrayList<>();
+        for (String name : FactorEngine.portfolioNames(def)) {
+            buckets.add(MonthlyBasis.of(stored.getOrDefault(name, ReturnSeries.empty())).monthly());
+        }
+        Monotonicity.Result r = Monotonicity.of(buckets, def.effectiveDirection() == FactorDefinition.Direction.HIGH_MINUS_LOW,
+                PeriodStatistics.of(monthly).nwTStat());
+        List<Map<String, Object>> bucketRows = new ArrayList<>();
+        for (Monotonicity.Bucket b : r.buckets()) {
+            Map<String, Object> row = new LinkedHashMap<>();
+            row.put("bucket", b.bucket());
+            row.put("n", b.n());
+            row.put("mean", b.mean());
+            row.put("nw_t_stat", b.nwTStat());
+            bucketRows.add(row);
+        }
+        List<Map<String, Object>> stepRows = new ArrayList<>();
+        for (Monotonicity.Step st : r.steps()) {
+            Map<String, Object> row = new LinkedHashMap<>();
+            row.put("from", st.from());
+            row.put("to", st.to());
+            row.put("n", st.n());
+            row.put("mean", st.mean());
+            row.put("nw_t_stat", st.nwTStat());
+            stepRows.add(row);
+        }
+        numbers.put("buckets", bucketRows);
+        numbers.put("steps", stepRows);
+        numbers.put("steps_in_direction", r.stepsInDirection());
+        numbers.put("min_step_t", r.minStepT());
+        numbers.put("rank_correlation", r.rankCorrelation());
+        return EvidenceJson.section(numbers, r.verdict(), null);
     }
 
     /** The live record: months ending after the day Winnow recorded this version's definition, against those before. */

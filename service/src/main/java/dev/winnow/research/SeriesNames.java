@@ -1,13 +1,27 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorEngine;
 import dev.winnow.stats.MonthlyBasis;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 
+import java.time.LocalDate;
+import java.util.List;
+
 /**
  * The one place where a series name in a query parameter is resolved, for every endpoint that takes factor names
- * (correlations, model tests, and the risk-system endpoints): a factor's name gives its current version's spread.
+ * (correlations, model tests, and the risk-system endpoints):
+ * <ul>
+ *   <li>{@code <factor>}: the current version's spread;</li>
+ *   <li>{@code <factor>:<portfolio>}: one of its stored portfolios, a bucket "1".."B" of a sort factor or one of
+ *       the six of a size_sort factor ({@code small_low}, ..., {@code big_high}), for example {@code value:5} or
+ *       {@code hml:small_high}.</li>
+ * </ul>
+ * Unknown factors, factors without portfolios and portfolios a factor does not have are
+ * {@link InvalidRequestException}s that say what exists.
  */
 public final class SeriesNames {
     private final FactorStore factors;
@@ -16,25 +30,51 @@ public final class SeriesNames {
         this.factors = factors;
     }
 
-    /** What a name resolved to: the factor version it reads, and the series. */
-    public record Resolved(String name, FactorVersionRecord version, ReturnSeries series) {
+    /** What a name resolved to: the factor version it reads, the portfolio (null for the spread), and the series. */
+    public record Resolved(String name, FactorVersionRecord version, String portfolio, ReturnSeries series) {
     }
 
     /** The stored series a name denotes, at its native frequency. */
     public Resolved resolve(String name, String parameter) {
-        FactorVersionRecord v = factors.current(name)
-                .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + name + "' in '" + parameter
+        int colon = name.lastIndexOf(':');
+        String factor = colon < 0 ? name : name.substring(0, colon);
+        FactorVersionRecord v = factors.catalog().current(factor)
+                .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + factor + "' in '" + parameter
                         + "'; GET /v1/factors lists them."));
-        return new Resolved(name, v, factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD));
+        if (colon < 0) {
+            return new Resolved(name, v, null, factors.series(v, FactorStore.Leg.SPREAD));
+        }
+        String portfolio = name.substring(colon + 1);
+        List<String> names = portfolioNames(v);
+        if (names.isEmpty()) {
+            throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' is a "
+                    + v.method() + " factor and has no portfolios; sort and size_sort factors have them.");
+        }
+        if (!names.contains(portfolio)) {
+            throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' has no portfolio '"
+                    + portfolio + "'; its portfolios are " + String.join(", ", names) + ".");
+        }
+        ReturnSeries series = factors.portfolios(v.factorId(), v.version()).getOrDefault(portfolio, ReturnSeries.empty());
+        return new Resolved(name, v, portfolio, series);
     }
 
     /** The series a name denotes on the monthly basis of the evidence table, restricted to months from..to. */
-    public ReturnSeries monthly(String name, String parameter, java.time.LocalDate from, java.time.LocalDate to) {
+    public ReturnSeries monthly(String name, String parameter, LocalDate from, LocalDate to) {
         Resolved r = resolve(name, parameter);
         MonthlyBasis basis = MonthlyBasis.of(r.series());
         if (basis.excluded()) {
             throw new InvalidRequestException("'" + name + "' in '" + parameter + "' cannot be used: " + basis.excludedReason() + ".");
         }
         return basis.monthly().between(from, to);
+    }
+
+    /** The names of the portfolios a version stores, in the definition's order; empty for market and external. */
+    public static List<String> portfolioNames(FactorVersionRecord v) {
+        DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
+        if (!parsed.ok()) {
+            return List.of();
+        }
+        FactorDefinition def = parsed.definition();
+        return FactorEngine.portfolioNames(def);
     }
 }

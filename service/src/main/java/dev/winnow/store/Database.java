@@ -93,6 +93,16 @@ public final class Database implements AutoCloseable {
         return new Database(pool, dialect);
     }
 
+    /** Whether opening failed because an embedded H2 database file is locked by another process. */
+    public static boolean isEmbeddedStoreInUse(Throwable e) {
+        for (Throwable t = e; t != null; t = t.getCause()) {
+            if (t instanceof java.sql.SQLException sql && sql.getErrorCode() == org.h2.api.ErrorCode.DATABASE_ALREADY_OPEN_1) {
+                return true;
+            }
+        }
+        return false;
+    }
+
     public Jdbi jdbi() {
         return jdbi;
     }
@@ -133,6 +143,11 @@ public final class Database implements AutoCloseable {
         } catch (java.io.IOException e) {
             return null;
         }
+    }
+
+    /** The JDBC URL the pool connects to (for a connection of its own, such as the change feed's listener). */
+    String jdbcUrl() {
+        return pool.getJdbcUrl();
     }
 
     public Dialect dialect() {

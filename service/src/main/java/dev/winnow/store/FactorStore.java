@@ -57,6 +57,19 @@ public final class FactorStore {
     private final ChangeFeed feed;
     private final FactorCatalog catalog;
 
+    private final java.util.concurrent.atomic.LongAdder seriesCacheHits = new java.util.concurrent.atomic.LongAdder();
+    private final java.util.concurrent.atomic.LongAdder seriesCacheMisses = new java.util.concurrent.atomic.LongAdder();
+
+    /** Series lookups answered from the cache since start (for /metrics). */
+    public long seriesCacheHits() {
+        return seriesCacheHits.sum();
+    }
+
+    /** Series lookups that read the store since start (for /metrics). */
+    public long seriesCacheMisses() {
+        return seriesCacheMisses.sum();
+    }
+
     /** A store whose commits are announced on a feed of its own (one process, tests). */
     public FactorStore(Jdbi jdbi) {
         this(jdbi, new LocalChangeFeed());
@@ -277,7 +290,7 @@ public final class FactorStore {
     public void saveBuild(long factorId, int version, List<StoredReturn> returns, List<StoredTurnover> turnover,
                           byte[] engineState, String reportJson, boolean append, LocalDate replaceFrom) {
         Replaced replaced = append ? Replaced.NOTHING : replaceFrom == null ? Replaced.EVERYTHING : Replaced.onOrAfter(replaceFrom);
-        saveBuild(factorId, version, new StoredBuild(returns, turnover, List.of(), engineState, reportJson), replaced);
+        saveBuild(factorId, version, new StoredBuild(returns, turnover, List.of(), engineState, reportJson, List.of()), replaced);
     }
 
     /**
@@ -288,14 +301,22 @@ public final class FactorStore {
                                    byte[] state) {
     }
 
-    /** What a build, extension or revision stores: new rows, new checkpoints, the end state and the report. */
+    /**
+     * What a build, extension or revision stores: new rows, new checkpoints, the end state, the report and the
+     * portfolios' returns.
+     */
     public record StoredBuild(List<StoredReturn> returns, List<StoredTurnover> turnover, List<StoredCheckpoint> checkpoints,
-                              byte[] engineState, String reportJson) {
+                              byte[] engineState, String reportJson, List<StoredPortfolioReturn> portfolioReturns) {
         public StoredBuild {
             returns = List.copyOf(returns);
             turnover = List.copyOf(turnover);
             checkpoints = List.copyOf(checkpoints);
+            portfolioReturns = List.copyOf(portfolioReturns);
         }
+    }
+
+    /** One portfolio's return on one date (a bucket of a sort, one of the six of a 2x3 sort). */
+    public record StoredPortfolioReturn(LocalDate date, String portfolio, double value) {
     }
 
     /**
@@ -329,10 +350,20 @@ public final class FactorStore {
      */
     public void saveBuild(long factorId, int version, StoredBuild build, Replaced replaced) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             deleteFrom(h, "factor_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
+            deleteFrom(h, "factor_portfolio_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             insertReturns(h, factorId, version, build.returns());
+            PreparedBatch pb = h.prepareBatch("INSERT INTO factor_portfolio_returns (factor_id, version, portfolio, obs_date, ret) "
+                    + "VALUES (:f, :v, :p, :d, :r)");
+            for (StoredPortfolioReturn r : build.portfolioReturns()) {
+                pb.bind("f", factorId).bind("v", version).bind("p", r.portfolio()).bind("d", r.date()).bind("r", r.value()).add();
+            }
+            if (!build.portfolioReturns().isEmpty()) {
+                pb.execute();
+            }
             PreparedBatch tb = h.prepareBatch("INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (:f, :v, :d, :t)");
             for (StoredTurnover t : build.turnover()) {
                 tb.bind("f", factorId).bind("v", version).bind("d", t.formationDate()).bind("t", t.turnover()).add();
@@ -392,6 +423,7 @@ public final class FactorStore {
      */
     public void saveExternal(long factorId, int version, List<StoredReturn> returns, boolean revise) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             if (revise) {
                 PreparedBatch del = h.prepareBatch("DELETE FROM factor_returns WHERE factor_id = :f AND version = :v AND obs_date = :d");
                 for (StoredReturn r : returns) {
@@ -428,9 +460,12 @@ public final class FactorStore {
     }
 
     public void markFailed(long factorId, int version, String reportJson) {
-        jdbi.useHandle(h -> h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
-                        + "WHERE factor_id = :f AND version = :v")
-                .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute());
+        jdbi.useTransaction(h -> {
+            JobLease.hold(h);
+            h.createUpdate("UPDATE factor_versions SET status = 'failed', build_report = :r, built_at = :now "
+                            + "WHERE factor_id = :f AND version = :v")
+                    .bind("r", reportJson).bind("now", OffsetDateTime.now(ZoneOffset.UTC)).bind("f", factorId).bind("v", version).execute();
+        });
         announce();
     }
 
@@ -458,8 +493,10 @@ public final class FactorStore {
         SeriesKey key = new SeriesKey(factorId, version, leg);
         CachedSeries cached = recentSeries.get(key);
         if (cached != null && cached.dataVersion() == dataVersion) {
+            seriesCacheHits.increment();
             return cached.series();
         }
+        seriesCacheMisses.increment();
         CachedSeries read = jdbi.inTransaction(h -> readSeries(h, factorId, version, leg));
         recentSeries.put(key, read);
         return read.series();
@@ -492,6 +529,54 @@ public final class FactorStore {
     private static Point readPoint(ResultSet rs) throws SQLException {
         return new Point(rs.getObject(1, LocalDate.class), rs.getDouble(2));
     }
+
+    /**
+     * Every stored portfolio of a version as a series, by portfolio name (in name order; the caller orders them as
+     * the definition does). Cached like {@link #series} and checked against the data version.
+     */
+    public Map<String, ReturnSeries> portfolios(long factorId, int version) {
+        long dataVersion = dataVersion(factorId, version);
+        SeriesKey key = new SeriesKey(factorId, version, null);
+        CachedPortfolios cached = recentPortfolios.get(key);
+        if (cached != null && cached.dataVersion() == dataVersion) {
+            return cached.series();
+        }
+        Map<String, List<Point>> points = new java.util.TreeMap<>();
+        jdbi.useHandle(h -> h.createQuery("SELECT portfolio, obs_date, ret FROM factor_portfolio_returns "
+                        + "WHERE factor_id = :f AND version = :v ORDER BY portfolio, obs_date")
+                .bind("f", factorId).bind("v", version)
+                .map((rs, ctx) -> Map.entry(rs.getString(1), new Point(rs.getObject(2, LocalDate.class), rs.getDouble(3))))
+                .forEach(e -> points.computeIfAbsent(e.getKey(), k -> new ArrayList<>()).add(e.getValue())));
+        Map<String, ReturnSeries> out = new LinkedHashMap<>();
+        points.forEach((name, list) -> {
+            LocalDate[] dates = new LocalDate[list.size()];
+            double[] values = new double[list.size()];
+            for (int i = 0; i < dates.length; i++) {
+                dates[i] = list.get(i).date();
+                values[i] = list.get(i).value();
+            }
+            out.put(name, new ReturnSeries(dates, values));
+        });
+        Map<String, ReturnSeries> frozen = Collections.unmodifiableMap(out);
+        recentPortfolios.put(key, new CachedPortfolios(dataVersion, frozen));
+        return frozen;
+    }
+
+    private long dataVersion(long factorId, int version) {
+        return jdbi.withHandle(h -> h.createQuery("SELECT data_version FROM factor_versions WHERE factor_id = :f AND version = :v")
+                .bind("f", factorId).bind("v", version).mapTo(Long.class).findOne().orElse(-1L));
+    }
+
+    private record CachedPortfolios(long dataVersion, Map<String, ReturnSeries> series) {
+    }
+
+    private final Map<SeriesKey, CachedPortfolios> recentPortfolios = Collections.synchronizedMap(
+            new LinkedHashMap<>(16, 0.75f, true) {
+                @Override
+                protected boolean removeEldestEntry(Map.Entry<SeriesKey, CachedPortfolios> eldest) {
+                    return size() > CACHED_SERIES;
+                }
+            });
 
     public List<StoredTurnover> turnover(long factorId, int version) {
         return jdbi.withHandle(h -> h.createQuery("SELECT formation_date, turnover FROM factor_turnover WHERE factor_id = :f AND version = :v "

@@ -95,6 +95,7 @@ public final class LoadingsStore {
         }
         OffsetDateTime now = OffsetDateTime.now(ZoneOffset.UTC);
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             deleteDates(h, panelId, tables.stream().map(LoadingsTable::date).toList());
             PreparedBatch insert = h.prepareBatch("INSERT INTO stored_loadings (panel_id, as_of, fingerprint, factor_digest, "
                     + "security_count, payload, computed_at) VALUES (:p, :d, :f, :g, :n, :b, :now)");
@@ -129,6 +130,7 @@ public final class LoadingsStore {
             return;
         }
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             PreparedBatch batch = h.prepareBatch("UPDATE stored_loadings SET fingerprint = :f WHERE panel_id = :p AND as_of = :d");
             for (LocalDate d : dates) {
                 batch.bind("f", fingerprint).bind("p", panelId).bind("d", d).add();

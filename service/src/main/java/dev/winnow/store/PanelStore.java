@@ -136,6 +136,7 @@ public final class PanelStore {
      */
     public void commitUpload(long panelId, long uploadId, Map<String, String> newColumns) {
         jdbi.useTransaction(h -> {
+            JobLease.hold(h);
             List<long[]> superseded = new ArrayList<>();
             h.createQuery("SELECT s.upload_id, s.slice_date FROM panel_slices s " + VISIBLE
                             + " WHERE s.panel_id = :p AND s.slice_date IN (SELECT slice_date FROM panel_slices WHERE upload_id = :u)")
@@ -181,7 +182,10 @@ public final class PanelStore {
         jdbi.useTransaction(h -> discard(h, uploadId));
     }
 
-    /** Discards what a job staged and did not commit (after a job failed on a storage fault). Returns how many uploads. */
+    /**
+     * Discards what a job staged and did not commit: after it failed on a storage fault, or before it runs again
+     * when an earlier run's worker died before the commit. Returns how many uploads.
+     */
     public int discardStagingOfJob(long jobId) {
         return jdbi.inTransaction(h -> {
             List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE state = 'staging' AND job_id = :j")
@@ -193,7 +197,7 @@ public final class PanelStore {
         });
     }
 
-    /** At start-up: discards uploads a crash left in staging. Returns how many. */
+    /** At start-up of the only process on an embedded store: discards uploads a crash left in staging. Returns how many. */
     public int discardAllStaging() {
         return jdbi.inTransaction(h -> {
             List<Long> staging = h.createQuery("SELECT id FROM uploads WHERE state = 'staging'").mapTo(Long.class).list();

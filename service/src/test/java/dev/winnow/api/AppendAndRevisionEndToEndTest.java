@@ -119,11 +119,15 @@ class AppendAndRevisionEndToEndTest {
         }
     }
 
-    /** Every factor's spread, legs, net and turnover as JSON text, and its observation count, on both servers. */
+    /**
+     * Every factor's spread, legs, net, turnover and stored portfolios (buckets, the six of a 2x3 sort; the same 409
+     * for the market) as JSON text, and its observation count, on both servers.
+     */
     private static void assertSameSeries(TestServer expected, TestServer actual) {
         for (int i = 0; i < DEFINITIONS.length; i++) {
             String f = "/v1/factors/f" + i;
-            for (String query : new String[] {"/returns", "/returns?leg=long", "/returns?leg=short", "/returns?net=true", "/turnover"}) {
+            for (String query : new String[] {"/returns", "/returns?leg=long", "/returns?leg=short", "/returns?net=true", "/turnover",
+                    "/portfolios"}) {
                 assertEquals(expected.get(f + query).body(), actual.get(f + query).body(), "f" + i + query + " " + DEFINITIONS[i]);
             }
             JsonNode observations = expected.get(f).json().path("observations");

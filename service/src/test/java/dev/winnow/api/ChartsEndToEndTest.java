@@ -166,14 +166,62 @@ class ChartsEndToEndTest {
     }
 
     @Test
-    void portfolioAndIcChartsSayWhichDataTheyNeed() {
-        for (String kind : List.of("portfolios", "ic")) {
-            TestServer.Reply r = server.get("/v1/factors/value_quintile_cap/charts/" + kind);
-            TestServer.assertProblem(r, 409);
-            assertTrue(r.json().path("detail").asText().contains("GET /v1/factors/{factor}/" + kind), r.body());
-            TestServer.assertProblem(server.get("/v1/factors/nope/charts/" + kind), 400);
-            TestServer.assertProblem(server.get("/v1/factors/value/charts/" + kind + "?width=5"), 400);
+    void portfoliosChartDrawsEachBucketsMeanWithItsNeweyWestT() {
+        SvgChart chart = chart("/v1/factors/value_quintile_cap/charts/portfolios");
+        // the monotonicity section summarises the same five quintile portfolios on the monthly basis (the demo is monthly)
+        JsonNode buckets = server.get("/v1/factors/value_quintile_cap/evidence").json().path("monotonicity").path("buckets");
+        List<Element> bars = chart.withClass("bar");
+        assertEquals(5, bars.size());
+        double zero = chart.y(0);
+        for (int i = 0; i < 5; i++) {
+            Element bar = bars.get(i);
+            JsonNode b = buckets.get(i);
+            assertEquals(String.valueOf(i + 1), bar.getAttribute("data-category"));
+            double mean = b.path("mean").asDouble();
+            assertEquals(mean, Double.parseDouble(bar.getAttribute("data-value")), 1e-12);
+            double top = Double.parseDouble(bar.getAttribute("y"));
+            double height = Double.parseDouble(bar.getAttribute("height"));
+            assertEquals(Math.min(chart.y(mean), zero), top, 0.0051, "bar " + (i + 1) + " top");
+            assertEquals(Math.abs(chart.y(mean) - zero), height, 0.0102, "bar " + (i + 1) + " height");
+            String t = String.format(java.util.Locale.ROOT, "t %.2f", b.path("nw_t_stat").asDouble()).replace('-', '\u2212');
+            assertEquals(t, chart.withClass("bar-note").get(i).getTextContent());
         }
+        assertTrue(chart.withClass("y-tick").size() >= 2);
+        for (Element tick : chart.withClass("y-tick")) {
+            assertEquals(chart.y(Double.parseDouble(tick.getAttribute("data-value"))) + 4, Double.parseDouble(tick.getAttribute("y")), 0.0051);
+        }
+    }
+
+    @Test
+    void portfoliosChartOfASizeSortMatchesTheMeansOfItsSixSeries() {
+        String range = "from=2010-01-01&frequency=quarterly";
+        SvgChart chart = chart("/v1/factors/size/charts/portfolios?" + range);
+        JsonNode json = server.get("/v1/factors/size/portfolios?" + range).json();
+        List<Element> bars = chart.withClass("bar");
+        assertEquals(6, bars.size());
+        for (int k = 0; k < 6; k++) {
+            String name = json.path("portfolios").get(k).asText();
+            assertEquals(name, bars.get(k).getAttribute("data-category"));
+            // the mean of the defined returns, by Apache Commons Math
+            org.apache.commons.math3.stat.descriptive.DescriptiveStatistics stats = new org.apache.commons.math3.stat.descriptive.DescriptiveStatistics();
+            json.path("returns").path(name).forEach(r -> {
+                if (!r.isNull()) {
+                    stats.addValue(r.asDouble());
+                }
+            });
+            assertEquals(stats.getMean(), Double.parseDouble(bars.get(k).getAttribute("data-value")), 1e-12, name);
+        }
+        TestServer.assertProblem(server.get("/v1/factors/market/charts/portfolios"), 409);
+        TestServer.assertProblem(server.get("/v1/factors/size/charts/portfolios?net=true"), 400);
+    }
+
+    @Test
+    void icChartSaysWhichDataItNeeds() {
+        TestServer.Reply r = server.get("/v1/factors/value_quintile_cap/charts/ic");
+        TestServer.assertProblem(r, 409);
+        assertTrue(r.json().path("detail").asText().contains("GET /v1/factors/{factor}/ic"), r.body());
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?width=5"), 400);
     }
 
     @Test

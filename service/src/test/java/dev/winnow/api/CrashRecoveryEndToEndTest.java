@@ -133,6 +133,8 @@ class CrashRecoveryEndToEndTest {
         if (database != null) {
             pb.environment().put("WINNOW_DB_URL", database.url());
         }
+        // on a shared store the killed process's job comes back when its lease expires; keep that short here
+        pb.environment().put("WINNOW_JOB_LEASE_S", "4");
         pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);
         if (dbUrl != null) {
             pb.environment().put("WINNOW_DB_URL", dbUrl);

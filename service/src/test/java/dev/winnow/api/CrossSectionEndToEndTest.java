@@ -130,6 +130,65 @@ class CrossSectionEndToEndTest {
         FiniteJson.problem(server.postJson("/v1/fama-macbeth", "{\"panel\":\"xs\",\"signals\":{\"v\":{\"sqrt\":\"value\"}}}", ADMIN), 400, "recipe");
     }
 
+    // Source: scipy.stats.spearmanr / pearsonr per date on the securities with both (cross_section_panel_fixtures.py),
+    // summaries with numpy and statsmodels HAC.
+    @Test
+    void informationCoefficientsMatchScipy() {
+        define("ic_value", "{\"panel\":\"xs\",\"method\":\"sort\",\"signal\":\"value\",\"buckets\":3}");
+        define("ic_noise", "{\"panel\":\"xs\",\"method\":\"sort\",\"signal\":\"noise\",\"lag\":2,\"weighting\":\"cap\","
+                + "\"universe\":{\"labels\":{\"sector\":{\"exclude\":[\"A\"]}}}}");
+        checkIc("spearman", "/v1/factors/ic_value/ic?horizons=1,2,3&min_securities=10");
+        checkIc("pearson_lag2_exclude", "/v1/factors/ic_noise/ic?horizons=1,6&method=pearson&min_securities=20");
+        // known truth of the generated panel: value predicts next month's return, noise does not
+        JsonNode value = FiniteJson.ok(server, "/v1/factors/ic_value/ic").get("summary").get(0);
+        assertTrue(value.get("t_stat").asDouble() > 3, value.toString());
+        JsonNode noise = FiniteJson.ok(server, "/v1/factors/ic_noise/ic?method=pearson").get("summary").get(0);
+        assertTrue(Math.abs(noise.get("mean").asDouble()) < 2 * noise.get("stdev").asDouble() / Math.sqrt(noise.get("n").asInt()), noise.toString());
+        TestServer.Reply csv = server.get("/v1/factors/ic_value/ic?horizons=1,3&format=csv");
+        assertEquals("date,ic_1,ic_3", csv.body().split("\n")[0]);
+        for (String bad : new String[] {"/v1/factors/ic_value/ic?horizons=0", "/v1/factors/ic_value/ic?horizons=61",
+                "/v1/factors/ic_value/ic?horizons=1,1", "/v1/factors/ic_value/ic?horizons=x", "/v1/factors/ic_value/ic?min_securities=2",
+                "/v1/factors/ic_value/ic?method=kendall", "/v1/factors/nope/ic"}) {
+            FiniteJson.problem(server.get(bad), 400, bad);
+        }
+        FiniteJson.problem(server.get("/v1/factors/f0/ic"), 409, "external");
+    }
+
+    private static void checkIc(String id, String path) {
+        JsonNode e = expected.get("ic").get(id);
+        JsonNode r = FiniteJson.ok(server, path);
+        assertEquals(e.get("dates"), r.get("dates"), id);
+        for (Iterator<Map.Entry<String, JsonNode>> it = e.get("ic").fields(); it.hasNext(); ) {
+            Map.Entry<String, JsonNode> h = it.next();
+            JsonNode got = r.get("ic").get(h.getKey());
+            for (int t = 0; t < h.getValue().size(); t++) {
+                JsonNode want = h.getValue().get(t);
+                if (want.isNull()) {
+                    assertTrue(got.get(t).isNull(), id + " h=" + h.getKey() + " #" + t + " should be null");
+                } else {
+                    assertEquals(want.asDouble(), got.get(t).asDouble(), 1e-12, id + " h=" + h.getKey() + " #" + t);
+                }
+            }
+        }
+        for (int k = 0; k < e.get("summary").size(); k++) {
+            JsonNode es = e.get("summary").get(k);
+            JsonNode rs = r.get("summary").get(k);
+            assertEquals(es.get("horizon").asInt(), rs.get("horizon").asInt());
+            assertEquals(es.get("n").asInt(), rs.get("n").asInt(), id);
+            assertEquals(es.get("nw_lags").asInt(), rs.get("nw_lags").asInt(), id);
+            for (String f : new String[] {"mean", "stdev", "ic_ir", "t_stat", "nw_t_stat", "share_positive"}) {
+                assertEquals(es.get(f).asDouble(), rs.get(f).asDouble(), 1e-9, id + " " + f);
+            }
+        }
+    }
+
+    private static void define(String name, String body) {
+        TestServer.Reply put = server.putJson("/v1/factors/" + name, body, ADMIN);
+        assertEquals(202, put.status(), put.body());
+        JsonNode job = server.awaitJob(put.json().path("job").asText());
+        assertEquals("succeeded", job.path("state").asText(), job.toString());
+    }
+
     @Test
     void famaMacBethNeedsReadScopeOnlyAndRejectsBadRequests() {
         TestServer.Reply token = server.postJson("/v1/tokens", "{\"name\":\"fm-reader\",\"scope\":\"read\"}", ADMIN);

@@ -292,5 +292,9 @@ class SignalsEndToEndTest {
         TestServer.Reply cycle = server.putJson("/v1/factors/a", a.replace("\"f\"", "\"b\""), ADMIN);
         assertProblem(cycle, 400);
         assertTrue(cycle.body().contains("signal.trailing_beta.against: factor 'b' reads 'a' itself"), cycle.body());
+        TestServer.Reply throughRiskFree = server.putJson("/v1/factors/a", "{\"panel\":\"fixture\",\"method\":\"market\","
+                + "\"risk_free\":\"b\",\"theme\":\"t\",\"rationale\":\"r\"}", ADMIN);
+        assertProblem(throughRiskFree, 400);
+        assertTrue(throughRiskFree.body().contains("risk_free: factor 'b' reads 'a' itself"), throughRiskFree.body());
     }
 }

@@ -57,12 +57,15 @@ final class SvgChart {
             String[] xd = plot.getAttribute("data-x-domain").split(" ");
             day0 = LocalDate.parse(xd[0]);
             day1 = LocalDate.parse(xd[1]);
+        } else {
+            day0 = day1 = null;
+        }
+        if (plot.hasAttribute("data-y-domain")) {
             String[] yd = plot.getAttribute("data-y-domain").split(" ");
             yMin = Double.parseDouble(yd[0]);
             yMax = Double.parseDouble(yd[1]);
             log = plot.getAttribute("data-y-scale").equals("log10");
         } else {
-            day0 = day1 = null;
             yMin = yMax = Double.NaN;
             log = false;
         }

@@ -32,19 +32,30 @@ public final class TestServer implements AutoCloseable {
 
     private final Path dir;
     private final TestDatabase database;
+    private final Config.Instance instance;
     private final dev.winnow.store.Limits limits;
     private Winnow winnow;
     private final HttpClient client = HttpClient.newBuilder().connectTimeout(Duration.ofSeconds(5)).build();
 
     public TestServer() throws IOException {
+        this(Config.Instance.DEFAULT);
+    }
+
+    /** A server with other instance settings (role, worker threads, lease). */
+    public TestServer(Config.Instance instance) throws IOException {
         // no free-space floor: the tests' uploads must not depend on how full the machine's disk is
-        this(Files.createTempDirectory("winnow-test"), new dev.winnow.store.Limits(dev.winnow.store.Limits.DEFAULTS.maxUploadBytes(), 0));
+        this(Files.createTempDirectory("winnow-test"), new dev.winnow.store.Limits(dev.winnow.store.Limits.DEFAULTS.maxUploadBytes(), 0), instance);
     }
 
     /** A server on the given data directory with the given limits (tests of limits and storage faults). */
     public TestServer(Path dir, dev.winnow.store.Limits limits) throws IOException {
+        this(dir, limits, Config.Instance.DEFAULT);
+    }
+
+    private TestServer(Path dir, dev.winnow.store.Limits limits, Config.Instance instance) throws IOException {
         this.dir = dir;
         this.limits = limits;
+        this.instance = instance;
         this.database = TestDatabase.fresh(dir, Config.defaultH2Url(dir));
         start();
     }
@@ -55,7 +66,7 @@ public final class TestServer implements AutoCloseable {
 
     /** The configuration this server runs with: port 0, its store, the test admin token. */
     public Config config() {
-        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN).withLimits(limits);
+        return new Config(0, "127.0.0.1", dir, database.url(), ADMIN).withLimits(limits).withInstance(instance);
     }
 
     /** The JDBC URL of this server's store. */
@@ -95,9 +106,16 @@ public final class TestServer implements AutoCloseable {
         }
     }
 
+    /**
+     * Sends the request and checks the answer against openapi.yaml ({@link ContractValidator}): an answer the
+     * document does not describe fails the test, whatever the test itself checks.
+     */
     public Reply send(HttpRequest.Builder request) {
         try {
-            HttpResponse<String> r = client.send(request.build(), HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+            HttpRequest built = request.build();
+            HttpResponse<String> r = client.send(built, HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+            ContractValidator.shared().check(built.method(), built.uri(), r.statusCode(),
+                    r.headers().firstValue("Content-Type").orElse(null), r.body());
             return new Reply(r.statusCode(), r.body(), r.headers());
         } catch (IOException | InterruptedException e) {
             throw new AssertionError("request failed", e);

@@ -1,0 +1,63 @@
+package dev.winnow.jobs;
+
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.JobStore.Resource;
+import dev.winnow.store.PanelStore;
+
+import java.util.ArrayList;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * What each kind of job reads and writes, which decides the order jobs run in when several workers share the queue:
+ * a job waits for every earlier unfinished job that writes something it touches or touches something it writes.
+ * <ul>
+ *   <li>a panel upload writes its panel (and, through it, extends the factors built on it);</li>
+ *   <li>a factor build writes its factor and reads its panel, so builds on one panel run in parallel with each
+ *       other but wait for earlier uploads of the panel, and later uploads wait for them;</li>
+ *   <li>a loadings history reads its panel;</li>
+ *   <li>an external series upload touches everything: it may rebuild any factor that subtracts it as its risk-free
+ *       rate, on any panel, and such uploads are rare;</li>
+ *   <li>any other kind touches everything.</li>
+ * </ul>
+ */
+public final class JobResources {
+    private final FactorStore factors;
+    private final PanelStore panels;
+
+    public JobResources(FactorStore factors, PanelStore panels) {
+        this.factors = factors;
+        this.panels = panels;
+    }
+
+    public static String panel(String name) {
+        return "panel:" + name;
+    }
+
+    public static String factor(String name) {
+        return "factor:" + name;
+    }
+
+    public List<Resource> of(String kind, Map<String, Object> params) {
+        List<Resource> resources = new ArrayList<>();
+        switch (kind) {
+            case JobKinds.PANEL_UPLOAD -> resources.add(Resource.writes(panel(String.valueOf(params.get("panel")))));
+            case LoadingsJobs.KIND -> resources.add(Resource.reads(panel(String.valueOf(params.get("panel")))));
+            case JobKinds.FACTOR_BUILD -> {
+                String name = String.valueOf(params.get("factor"));
+                resources.add(Resource.writes(factor(name)));
+                FactorVersionRecord v = params.get("version") instanceof Number n
+                        ? factors.version(name, n.intValue()).orElse(null) : null;
+                if (v == null || v.panelId() == null) {
+                    resources.add(Resource.writes(Resource.EVERYTHING));
+                } else {
+                    panels.find(v.panelId()).ifPresentOrElse(p -> resources.add(Resource.reads(panel(p.name()))),
+                            () -> resources.add(Resource.writes(Resource.EVERYTHING)));
+                }
+            }
+            default -> resources.add(Resource.writes(Resource.EVERYTHING));
+        }
+        return resources;
+    }
+}

@@ -1,0 +1,162 @@
+package dev.winnow.research;
+
+import dev.winnow.construct.CrossSection;
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.FactorDefinition.Method;
+import dev.winnow.construct.SampleRows;
+import dev.winnow.stats.Correlations;
+import dev.winnow.stats.EstimateSeries;
+import dev.winnow.stats.ReturnSeries;
+import dev.winnow.store.FactorStore;
+import dev.winnow.store.FactorStore.FactorVersionRecord;
+import dev.winnow.store.PanelStore;
+import dev.winnow.store.StorePanelSource;
+
+import java.time.LocalDate;
+import java.util.ArrayList;
+import java.util.Arrays;
+import java.util.HashMap;
+import java.util.LinkedHashMap;
+import java.util.List;
+import java.util.Map;
+
+/**
+ * Information coefficients of a factor's signal: for every grid index R (whatever the rebalancing calendar) and
+ * horizon h, the cross-sectional correlation (Pearson 1896, or Spearman 1904 = Pearson on average ranks) between the
+ * signal as a formation at R would use it (the values at R-(lag-1) of the securities with a finite signal that pass
+ * the universe; the market-cap requirement of cap weighting does not apply) and each security's one-period return at
+ * grid index R+h, over the securities that have both. No value when fewer than {@code minSecurities} have both or
+ * R+h is past the last date. The raw signal is used, so a low_minus_high factor that works has a negative IC. Each
+ * horizon's series is summarised by {@link EstimateSeries} (ic_ir = mean / stdev). The panel is read once, in grid
+ * order, keeping the samples of the last max(h) grid dates.
+ */
+public final class InformationCoefficients {
+    public static final int MAX_HORIZONS = 24;
+    public static final int MAX_HORIZON = 60;
+
+    private final PanelStore panels;
+    private final FactorStore factors;
+
+    public InformationCoefficients(PanelStore panels, FactorStore factors) {
+        this.panels = panels;
+        this.factors = factors;
+    }
+
+    public record Request(FactorVersionRecord version, List<Integer> horizons, Correlations.Method method, int minSecurities,
+                          LocalDate from, LocalDate to) {
+        public Request {
+            horizons = List.copyOf(horizons);
+        }
+    }
+
+    /** @param ic per horizon (in request order), one value per date, NaN where there is none */
+    public record Result(FactorVersionRecord version, Correlations.Method method, List<Integer> horizons, List<LocalDate> dates,
+                         List<double[]> ic, List<EstimateSeries> summary) {
+    }
+
+    public Result run(Request request) {
+        FactorVersionRecord v = request.version();
+        FactorDefinition def = FactorBuilds.definition(v);
+        if (def.method() != Method.SORT && def.method() != Method.SIZE_SORT && def.method() != Method.RANK_WEIGHTED) {
+            throw new ConflictException("Factor '" + v.name() + "' is a " + v.method() + " factor and has no signal;"
+                    + " information coefficients exist for sort, size_sort and rank_weighted factors.");
+        }
+        if (v.panelId() == null) {
+            throw new InvalidRequestException("Factor '" + v.name() + "' has no panel.");
+        }
+        StorePanelSource panel = new StorePanelSource(panels, v.panelId());
+        Map<String, ReturnSeries> signalFactors = new LinkedHashMap<>();
+        for (String name : def.signal().factors()) {
+            FactorVersionRecord f = factors.catalog().current(name).orElseThrow(() -> new InvalidRequestException(
+                    "The signal reads factor '" + name + "', which does not exist any more."));
+            signalFactors.put(name, factors.series(f, FactorStore.Leg.SPREAD));
+        }
+        CrossSectionSignal signal = CrossSectionSignal.of(def.signal(), panel, signalFactors);
+        List<LocalDate> grid = panel.dates();
+        int lag = def.effectiveLag();
+        List<Integer> horizons = request.horizons();
+        int maxH = horizons.stream().mapToInt(Integer::intValue).max().orElse(1);
+        List<LocalDate> dates = new ArrayList<>();
+        int first = -1;
+        for (int r = 0; r < grid.size(); r++) {
+            if (inRange(grid.get(r), request.from(), request.to())) {
+                first = first < 0 ? r : first;
+                dates.add(grid.get(r));
+            }
+        }
+        List<double[]> ic = new ArrayList<>();
+        for (int k = 0; k < horizons.size(); k++) {
+            double[] row = new double[dates.size()];
+            Arrays.fill(row, Double.NaN);
+            ic.add(row);
+        }
+        if (!dates.isEmpty()) {
+            int last = first + dates.size() - 1;
+            Map<Integer, Sample> samples = new HashMap<>();
+            int start = Math.max(0, first - (lag - 1));
+            int end = Math.min(grid.size() - 1, last + maxH);
+            for (int t = start; t <= end; t++) {
+                CrossSection rows = panel.crossSection(t);
+                int r = t + lag - 1; // the formation date whose signal these rows hold
+                if (r >= first && r <= last) {
+                    samples.put(r, Sample.of(def, rows, signal.values(t, rows)));
+                }
+                for (int k = 0; k < horizons.size(); k++) {
+                    Sample s = samples.get(t - horizons.get(k));
+                    if (s != null) {
+                        ic.get(k)[t - horizons.get(k) - first] = s.correlate(rows, request.method(), request.minSecurities());
+                    }
+                }
+                samples.remove(t - maxH);
+            }
+        }
+        List<EstimateSeries> summary = new ArrayList<>();
+        for (double[] row : ic) {
+            summary.add(EstimateSeries.of(Arrays.stream(row).filter(x -> !Double.isNaN(x)).toArray()));
+        }
+        return new Result(v, request.method(), horizons, dates, ic, summary);
+    }
+
+    private static boolean inRange(LocalDate d, LocalDate from, LocalDate to) {
+        return (from == null || !d.isBefore(from)) && (to == null || !d.isAfter(to));
+    }
+
+    /** The securities (increasing ids) eligible at a formation and their signal values. */
+    private record Sample(int[] ids, double[] values) {
+        static Sample of(FactorDefinition def, CrossSection rows, double[] signal) {
+            int[] eligible = SampleRows.withSignal(def, rows, signal);
+            int[] ids = new int[eligible.length];
+            double[] values = new double[eligible.length];
+            for (int k = 0; k < eligible.length; k++) {
+                ids[k] = rows.securityIds()[eligible[k]];
+                values[k] = signal[eligible[k]];
+            }
+            return new Sample(ids, values);
+        }
+
+        /** The correlation with the returns in {@code rows} over the securities with both; NaN below the minimum. */
+        double correlate(CrossSection rows, Correlations.Method method, int minSecurities) {
+            int[] rowIds = rows.securityIds();
+            double[] returns = rows.returns();
+            double[] x = new double[ids.length];
+            double[] y = new double[ids.length];
+            int n = 0;
+            int j = 0;
+            for (int k = 0; k < ids.length; k++) {
+                while (j < rowIds.length && rowIds[j] < ids[k]) {
+                    j++;
+                }
+                if (j < rowIds.length && rowIds[j] == ids[k] && Double.isFinite(returns[j])) {
+                    x[n] = values[k];
+                    y[n++] = returns[j];
+                }
+            }
+            if (n < minSecurities) {
+                return Double.NaN;
+            }
+            double[] xs = Arrays.copyOf(x, n);
+            double[] ys = Arrays.copyOf(y, n);
+            return method == Correlations.Method.SPEARMAN ? Correlations.spearman(xs, ys) : Correlations.pearson(xs, ys);
+        }
+    }
+}
