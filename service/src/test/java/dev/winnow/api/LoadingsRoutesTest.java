@@ -87,7 +87,10 @@ class LoadingsRoutesTest {
 
     private static Reply send(HttpRequest.Builder request) {
         try {
-            HttpResponse<String> r = CLIENT.send(request.build(), HttpResponse.BodyHandlers.ofString());
+            HttpRequest built = request.build();
+            HttpResponse<String> r = CLIENT.send(built, HttpResponse.BodyHandlers.ofString());
+            ContractValidator.shared().check(built.method(), built.uri(), r.statusCode(),
+                    r.headers().firstValue("Content-Type").orElse(null), r.body());
             return new Reply(r.statusCode(), r.body(), r.headers().firstValue("Winnow-Loadings-Source").orElse(null),
                     r.headers().firstValue("Content-Type").orElse(""));
         } catch (IOException | InterruptedException e) {

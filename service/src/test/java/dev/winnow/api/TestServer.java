@@ -106,9 +106,16 @@ public final class TestServer implements AutoCloseable {
         }
     }
 
+    /**
+     * Sends the request and checks the answer against openapi.yaml ({@link ContractValidator}): an answer the
+     * document does not describe fails the test, whatever the test itself checks.
+     */
     public Reply send(HttpRequest.Builder request) {
         try {
-            HttpResponse<String> r = client.send(request.build(), HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+            HttpRequest built = request.build();
+            HttpResponse<String> r = client.send(built, HttpResponse.BodyHandlers.ofString(StandardCharsets.UTF_8));
+            ContractValidator.shared().check(built.method(), built.uri(), r.statusCode(),
+                    r.headers().firstValue("Content-Type").orElse(null), r.body());
             return new Reply(r.statusCode(), r.body(), r.headers());
         } catch (IOException | InterruptedException e) {
             throw new AssertionError("request failed", e);
