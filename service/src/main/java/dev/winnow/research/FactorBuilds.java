@@ -71,7 +71,7 @@ public final class FactorBuilds {
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
     public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
         Map<String, Object> report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
@@ -93,12 +93,10 @@ public final class FactorBuilds {
         List<TogetherOutcome> out = new ArrayList<>();
         Map<Long, List<FactorVersionRecord>> byPanel = new LinkedHashMap<>();
         Map<Long, List<FactorEngine.Member>> members = new LinkedHashMap<>();
-        Map<Long, java.util.Set<String>> columns = new LinkedHashMap<>();
         for (FactorVersionRecord v : versions) {
             try {
                 FactorDefinition def = definition(v);
-                panelSource(v, def);
-                columns.computeIfAbsent(v.panelId(), k -> new java.util.TreeSet<>()).addAll(def.columnsRead());
+                panelSource(v);
                 FactorEngine.Member m = new FactorEngine.Member(def, riskFree(def), signalFactors(def));
                 byPanel.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(v);
                 members.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(m);
@@ -109,7 +107,7 @@ public final class FactorBuilds {
         long totalDates = 0;
         Map<Long, StorePanelSource> sources = new LinkedHashMap<>();
         for (Long panelId : byPanel.keySet()) {
-            StorePanelSource source = new StorePanelSource(panels, panelId, columns.get(panelId)::contains);
+            StorePanelSource source = new StorePanelSource(panels, panelId);
             sources.put(panelId, source);
             totalDates += source.dates().size();
         }
@@ -145,7 +143,7 @@ public final class FactorBuilds {
         Map<String, Object> previous = v.buildReport() == null ? Map.of() : JsonText.readMap(v.buildReport());
         int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), state,
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), state,
                 previousObservations, previousMissing, checkpointDates);
         Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
@@ -161,7 +159,7 @@ public final class FactorBuilds {
      */
     public Map<String, Object> rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        StorePanelSource panel = panelSource(v, def);
+        StorePanelSource panel = panelSource(v);
         StoredCheckpoint checkpoint = earliestChanged == null ? null
                 : factors.latestCheckpointBefore(v.factorId(), v.version(), earliestChanged)
                         .filter(c -> resumable(c, def, panel.dates()))
@@ -188,7 +186,7 @@ public final class FactorBuilds {
      */
     public Holdings holdings(FactorVersionRecord v, int dateIndex) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        StorePanelSource panel = panelSource(v, def);
+        StorePanelSource panel = panelSource(v);
         int formation = FactorEngine.latestFormation(def, panel.dates(), dateIndex);
         if (formation < 0) {
             return null;
@@ -205,7 +203,7 @@ public final class FactorBuilds {
 
     /** The grid of a version's panel. */
     public List<LocalDate> grid(FactorVersionRecord v) throws FactorBuildException {
-        return panelSource(v, definition(v)).dates();
+        return panelSource(v).dates();
     }
 
     /** Whether the checkpoint still sits at its grid position and belongs to this definition. */
@@ -257,12 +255,11 @@ public final class FactorBuilds {
         return report;
     }
 
-    /** The version's panel, decoding only the columns the definition reads. */
-    private StorePanelSource panelSource(FactorVersionRecord v, FactorDefinition def) throws FactorBuildException {
+    private StorePanelSource panelSource(FactorVersionRecord v) throws FactorBuildException {
         if (v.panelId() == null) {
             throw new FactorBuildException("factor '" + v.name() + "' has no panel to build from");
         }
-        return new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
+        return new StorePanelSource(panels, v.panelId());
     }
 
     private ReturnSeries riskFree(FactorDefinition def) throws FactorBuildException {

@@ -41,17 +41,12 @@ final class UploadFixtures {
     }
 
     /** Collects what the parser sends. */
-    static class CollectingSink implements CrossSectionSink {
+    static final class CollectingSink implements CrossSectionSink {
         final List<CrossSection> received = new ArrayList<>();
 
         @Override
         public void accept(CrossSection crossSection) {
             received.add(crossSection);
-        }
-
-        @Override
-        public void discardAccepted() {
-            received.clear();
         }
     }
 
