@@ -243,13 +243,12 @@ final class ChartRoutes {
         return new ReturnSeries(d.toArray(LocalDate[]::new), r.stream().mapToDouble(Double::doubleValue).toArray());
     }
 
-    /** Information coefficients are not computed by this server yet: a 409 that says which data the chart needs. */
+    /** The IC chart is not drawn yet: a 409 that points to the numbers it would draw. */
     void ic(Context ctx) {
         SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
         Size.of(ctx);
-        throw new ApiProblem(409, "Conflict", "The ic chart draws the mean information coefficient of '" + request.version().name()
-                + "' by horizon, and this server does not compute information coefficients yet (there is no "
-                + "GET /v1/factors/{factor}/ic); use the cumulative, drawdowns or significance chart meanwhile.");
+        throw new ApiProblem(409, "Conflict", "The ic chart of '" + request.version().name() + "' (mean information coefficient by"
+                + " horizon) is not drawn by this server yet; GET /v1/factors/{factor}/ic serves its numbers as JSON or CSV.");
     }
 
     private static void respond(Context ctx, String svg) {
