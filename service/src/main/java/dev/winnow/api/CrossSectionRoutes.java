@@ -47,7 +47,7 @@ final class CrossSectionRoutes {
 
     /** {@code GET /v1/factors/{factor}/ic?horizons&method&min_securities&from&to&version}. */
     void informationCoefficients(Context ctx) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         List<Integer> horizons = horizonsParam(ctx);
         String method = Requests.choiceParam(ctx, "method", List.of("spearman", "pearson"), "spearman");
         Integer min = Requests.intParam(ctx, "min_securities", 3, 1_000_000);
@@ -108,7 +108,7 @@ final class CrossSectionRoutes {
 
     /** {@code GET /v1/factors/{factor}/portfolios?from&to&frequency&form&version}. */
     void portfolios(Context ctx) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         boolean csv = Responses.wantsCsv(ctx);
         if (Responses.notModified(ctx, v, csv)) {

@@ -220,7 +220,7 @@ class ChartsEndToEndTest {
         TestServer.Reply r = server.get("/v1/factors/value_quintile_cap/charts/ic");
         TestServer.assertProblem(r, 409);
         assertTrue(r.json().path("detail").asText().contains("GET /v1/factors/{factor}/ic"), r.body());
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?width=5"), 400);
     }
 
@@ -243,7 +243,7 @@ class ChartsEndToEndTest {
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?height=99999"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?leg=long"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?log=maybe"), 400);
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/drawdowns?from=2030-01-01"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/significance?window=100000"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/pie"), 404);
