@@ -208,7 +208,7 @@ final class ChartRoutes {
      */
     void portfolios(Context ctx) {
         Requests.rejectParams(ctx, "the portfolios chart (portfolios have no net or leg form)", "net", "leg", "form");
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         Size size = Size.of(ctx);
         if (Responses.notModified(ctx, v, false)) {

@@ -71,7 +71,7 @@ final class CrossSectionRoutes {
 
     /** {@code GET /v1/factors/{factor}/portfolios?from&to&frequency&form&version}. */
     void portfolios(Context ctx) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         boolean csv = Responses.wantsCsv(ctx);
         if (Responses.notModified(ctx, v, csv)) {

@@ -18,7 +18,7 @@ import java.util.List;
 record IcRequest(InformationCoefficients.Request study, String method) {
 
     static IcRequest of(Context ctx, FactorStore factors) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         List<Integer> horizons = horizonsParam(ctx);
         String method = Requests.choiceParam(ctx, "method", List.of("spearman", "pearson"), "spearman");
         Integer min = Requests.intParam(ctx, "min_securities", 3, 1_000_000);

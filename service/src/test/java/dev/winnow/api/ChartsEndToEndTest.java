@@ -252,7 +252,7 @@ class ChartsEndToEndTest {
     @Test
     void icChartRejectsWhatTheNumbersDoNotTake() {
         TestServer.assertProblem(server.get("/v1/factors/market/charts/ic"), 409);
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?width=5"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?horizons=0"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?method=kendall"), 400);
@@ -280,7 +280,7 @@ class ChartsEndToEndTest {
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?height=99999"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?leg=long"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?log=maybe"), 400);
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/drawdowns?from=2030-01-01"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/significance?window=100000"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/pie"), 404);

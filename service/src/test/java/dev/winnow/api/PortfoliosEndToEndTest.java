@@ -136,12 +136,12 @@ class PortfoliosEndToEndTest {
     }
 
     @Test
-    void otherMethodsAnswer409AndUnknownFactors400() {
+    void otherMethodsAnswer409AndUnknownFactors404() {
         TestServer.Reply r = server.get("/v1/factors/cash/portfolios");
         FiniteJson.problem(r, 409, "external");
         assertTrue(r.json().get("detail").asText().contains("sort"), r.body());
-        FiniteJson.problem(server.get("/v1/factors/nope/portfolios"), 400, "unknown");
-        FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?version=7"), 400, "version");
+        FiniteJson.problem(server.get("/v1/factors/nope/portfolios"), 404, "unknown");
+        FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?version=7"), 404, "version");
         FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?frequency=daily"), 400, "finer");
     }
 
