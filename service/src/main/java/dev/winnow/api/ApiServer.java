@@ -80,7 +80,7 @@ public final class ApiServer {
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
         LibraryRoutes library = new LibraryRoutes(d.factorLibrary(), d.portfolioRisk(), d.panels(), served);
-        ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios());
+        ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios(), d.informationCoefficients());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());
