@@ -2,7 +2,7 @@ package dev.winnow.api;
 
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
@@ -66,10 +66,7 @@ final class FactorRoutes {
                     + "); only method external takes uploaded returns.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
-        Map<String, Object> target = new LinkedHashMap<>();
-        target.put("factor", name);
-        target.put("version", v.version());
-        Accepted.job(ctx, queue.enqueue(JobKinds.SERIES_UPLOAD, received.jobParams(target)));
+        Accepted.job(ctx, queue.enqueue(new JobParams.SeriesUpload(name, v.version(), received.mode(), received.spoolPath(), received.gzip())));
     }
 
     void list(Context ctx) {
