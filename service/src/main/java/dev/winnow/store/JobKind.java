@@ -25,6 +25,12 @@ public enum JobKind {
         return name().toLowerCase(Locale.ROOT);
     }
 
+    /** The wire name, so that logs and messages spell the kind as the API does. */
+    @Override
+    public String toString() {
+        return wireName();
+    }
+
     /** The kind of a stored wire name; IllegalStateException for one this build does not know. */
     public static JobKind fromWire(String wire) {
         return Arrays.stream(values()).filter(k -> k.wireName().equals(wire)).findFirst()

@@ -14,6 +14,12 @@ public enum JobState {
         return name().toLowerCase(Locale.ROOT);
     }
 
+    /** The wire name, so that logs and messages spell the state as the API does. */
+    @Override
+    public String toString() {
+        return wireName();
+    }
+
     public boolean finished() {
         return this == SUCCEEDED || this == FAILED;
     }
