@@ -1,8 +1,5 @@
 package dev.winnow.store;
 
-import java.util.Arrays;
-import java.util.Locale;
-
 /** Where a factor version's series is: being built, ready to serve, or failed to build. Wire name: lower case. */
 public enum VersionStatus {
     BUILDING,
@@ -10,7 +7,7 @@ public enum VersionStatus {
     FAILED;
 
     public String wireName() {
-        return name().toLowerCase(Locale.ROOT);
+        return WireNames.of(this);
     }
 
     @Override
@@ -19,7 +16,6 @@ public enum VersionStatus {
     }
 
     public static VersionStatus fromWire(String wire) {
-        return Arrays.stream(values()).filter(s -> s.wireName().equals(wire)).findFirst()
-                .orElseThrow(() -> new IllegalStateException("unknown factor version status '" + wire + "' in the store"));
+        return WireNames.parse(VersionStatus.class, wire, "factor version status in the store");
     }
 }
