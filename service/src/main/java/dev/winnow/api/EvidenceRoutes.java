@@ -53,7 +53,7 @@ final class EvidenceRoutes {
         checkRiskFreeAlias(ctx);
         Snapshot snapshot = library.snapshot();
         List<Map<String, Object>> rows = new ArrayList<>();
-        List<Map<String, Object>> excluded = new ArrayList<>();
+        List<EvidenceJson.Excluded> excluded = new ArrayList<>();
         for (Trial trial : snapshot.trials()) {
             if (trial.inTable()) {
                 rows.add(EvidenceJson.row(trial, trial.row()));
@@ -68,7 +68,7 @@ final class EvidenceRoutes {
     /** The trial table: N, its basis, V and SR0, a row per trial and the versions that are no trial. */
     @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
     record Table(int trials, String basis, double sharpeVariance, double expectedMaxSharpe, List<Map<String, Object>> factors,
-                 List<Map<String, Object>> excluded) {
+                 List<EvidenceJson.Excluded> excluded) {
     }
 
     /** A theme's composite series. */
