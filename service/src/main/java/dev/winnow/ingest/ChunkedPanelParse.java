@@ -294,7 +294,8 @@ final class ChunkedPanelParse {
             Thread.currentThread().interrupt();
         } catch (ZipException | EOFException badGzip) {
             offer(chunks, upload.gzip() ? new Unsuitable("unreadable gzip stream") : badGzip);
-        } catch (IOException | RuntimeException e) {
+        } catch (IOException | RuntimeException | Error e) {
+            // whatever ends the reader, the parsing thread is told: it never waits for a chunk that cannot come
             offer(chunks, e);
         }
     }
@@ -467,6 +468,14 @@ final class ChunkedPanelParse {
     }
 
     private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
+        // a chunk whose dates go back gives up before any of its dates is handed over (most files not in
+        // ascending blocks are found out here, in their first chunk, with nothing staged to discard)
+        for (int d = 0; d < rows.dateCount; d++) {
+            LocalDate previous = d == 0 ? blockDate : rows.dateList[d - 1];
+            if (previous != null && (d == 0 ? rows.dateList[d].isBefore(previous) : !rows.dateList[d].isAfter(previous))) {
+                throw new Unsuitable("dates not in ascending blocks");
+            }
+        }
         int[] idOf = new int[rows.codes.size()];
         for (int c = 0; c < idOf.length; c++) {
             idOf[c] = idFor(rows.codes.textAt(c));

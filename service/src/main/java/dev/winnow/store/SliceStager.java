@@ -16,26 +16,28 @@ import java.util.concurrent.TimeUnit;
  * hands over cross-sections ({@link #accept}, which waits while {@value #QUEUED} are queued), the stager encodes
  * them ({@link CrossSectionCodec}) and inserts them in batches of about {@value #BATCH_BYTES} bytes, one transaction
  * per batch. Staged rows stay invisible until the upload commits, so batching changes nothing readers can see.
- * A failure of the writer surfaces at the next call from the parser's side.
+ *
+ * <p>Each writer thread has a queue of its own: {@link #discardStaged} stops the writer, deletes what it wrote and
+ * starts a new writer on a new queue, so nothing queued for (or left over by) the old writer can reach the new one.
+ * A writer that stops for any reason other than being told to is noticed at the parser's next call: a failure is
+ * thrown there, and a writer gone without a failure is reported as such, never waited on. {@link #finish} checks
+ * that every accepted slice was written, so an upload can never commit with a slice missing.
  */
 public final class SliceStager implements AutoCloseable {
     private static final int QUEUED = 32;
     private static final int BATCH_BYTES = 8 << 20;
     private static final int BATCH_SLICES = 512;
+    private static final long WAIT_MILLIS = 100;
     private static final CrossSection END = new CrossSection(LocalDate.MIN, new int[0], new double[0], new double[0],
             java.util.Map.of(), java.util.Map.of());
 
     private final Jdbi jdbi;
     private final long panelId;
     private final long uploadId;
-    private final BlockingQueue<CrossSection> queue = new ArrayBlockingQueue<>(QUEUED);
-    private Thread writer;
-    private volatile Throwable failure;
-    private volatile boolean stopped;
-    private long stagedSlices;
-    private long stagedBytes;
-    private long encodeNanos;
-    private long writeNanos;
+    private Writer writer;
+    private int generation;
+    /** Cross-sections handed to the current writer (since the last discard). */
+    private long accepted;
 
     /** What the stager did: slices and payload bytes written, and its busy time encoding and writing. */
     public record Stats(long slices, long bytes, long encodeNanos, long writeNanos) {
@@ -45,46 +47,39 @@ public final class SliceStager implements AutoCloseable {
         this.jdbi = jdbi;
         this.panelId = panelId;
         this.uploadId = uploadId;
-        startWriter();
-    }
-
-    private void startWriter() {
-        stopped = false;
-        failure = null;
-        writer = new Thread(this::write, "slice-stager-" + uploadId);
-        writer.setDaemon(true);
-        writer.start();
+        this.writer = new Writer();
     }
 
     /** Queues a cross-section for staging; waits while the queue is full. */
     public void accept(CrossSection cs) throws InterruptedException {
-        while (!queue.offer(cs, 100, TimeUnit.MILLISECONDS)) {
-            rethrowFailure();
-        }
-        rethrowFailure();
+        writer.put(cs);
+        accepted++;
     }
 
-    /** Waits until everything accepted is staged. */
+    /** Waits until everything accepted is staged; fails unless every accepted slice was written. */
     public Stats finish() throws InterruptedException {
-        accept(END);
-        writer.join();
-        rethrowFailure();
-        return new Stats(stagedSlices, stagedBytes, encodeNanos, writeNanos);
+        Writer w = writer;
+        w.put(END);
+        w.thread.join();
+        w.rethrowFailure();
+        if (w.slices != accepted) {
+            throw new IllegalStateException("the staging writer wrote " + w.slices + " of " + accepted + " slices");
+        }
+        return new Stats(w.slices, w.bytes, w.encodeNanos, w.writeNanos);
     }
 
     /**
      * Forgets what was accepted so far: stops the writer, deletes the slices it staged (the upload's new security
-     * codes stay) and starts writing afresh.
+     * codes stay) and starts a new writer on an empty queue of its own.
      */
     public void discardStaged() {
-        stopWriter();
+        writer.stop();
         jdbi.useTransaction(h -> {
             h.createUpdate("DELETE FROM slice_payloads WHERE upload_id = :u").bind("u", uploadId).execute();
             h.createUpdate("DELETE FROM panel_slices WHERE upload_id = :u").bind("u", uploadId).execute();
         });
-        stagedSlices = 0;
-        stagedBytes = 0;
-        startWriter();
+        accepted = 0;
+        writer = new Writer();
     }
 
     /**
@@ -93,78 +88,121 @@ public final class SliceStager implements AutoCloseable {
      */
     @Override
     public void close() {
-        stopWriter();
-    }
-
-    private void stopWriter() {
-        stopped = true;
-        queue.clear();
-        boolean interrupted = false;
-        while (writer.isAlive()) {
-            queue.offer(END);
-            try {
-                writer.join(1000);
-            } catch (InterruptedException e) {
-                interrupted = true;
-            }
-        }
-        if (interrupted) {
-            Thread.currentThread().interrupt();
-        }
-    }
-
-    private void rethrowFailure() {
-        Throwable t = failure;
-        if (t instanceof RuntimeException e) {
-            throw e;
-        }
-        if (t instanceof Error e) {
-            throw e;
-        }
-        if (t != null) {
-            throw new IllegalStateException("staging the upload failed", t);
-        }
+        writer.stop();
     }
 
     private record Encoded(LocalDate date, int rows, byte[] payload) {
     }
 
-    private void write() {
-        List<Encoded> batch = new ArrayList<>();
-        long bytes = 0;
-        try {
-            while (!stopped) {
-                CrossSection cs = queue.take();
-                if (cs == END) {
-                    break;
-                }
-                long t0 = System.nanoTime();
-                byte[] payload = CrossSectionCodec.encode(cs);
-                encodeNanos += System.nanoTime() - t0;
-                batch.add(new Encoded(cs.date(), cs.size(), payload));
-                bytes += payload.length;
-                if (bytes >= BATCH_BYTES || batch.size() >= BATCH_SLICES) {
-                    insert(batch);
-                    batch.clear();
-                    bytes = 0;
-                }
-            }
-            if (!stopped && !batch.isEmpty()) {
-                insert(batch);
-            }
-        } catch (InterruptedException e) {
-            failure = e;
-        } catch (RuntimeException | Error e) {
-            failure = e;
-        }
-    }
+    /**
+     * One writer thread and its queue. Its counters are written by the thread only and read after it ended
+     * ({@link Thread#join} orders the two).
+     */
+    private final class Writer implements Runnable {
+        final BlockingQueue<CrossSection> queue = new ArrayBlockingQueue<>(QUEUED);
+        final Thread thread;
+        volatile boolean stopped;
+        volatile Throwable failure;
+        long slices;
+        long bytes;
+        long encodeNanos;
+        long writeNanos;
 
-    private void insert(List<Encoded> batch) {
-        long t0 = System.nanoTime();
-        try {
-            insertBatch(batch);
-        } finally {
-            writeNanos += System.nanoTime() - t0;
+        Writer() {
+            thread = new Thread(this, "slice-stager-" + uploadId + "-" + (++generation));
+            thread.setDaemon(true);
+            thread.start();
+        }
+
+        /** Queues an item, waiting while the queue is full; fails as soon as the writer is gone. */
+        void put(CrossSection cs) throws InterruptedException {
+            while (!queue.offer(cs, WAIT_MILLIS, TimeUnit.MILLISECONDS)) {
+                checkRunning();
+            }
+            if (cs != END) {
+                checkRunning();
+            }
+        }
+
+        private void checkRunning() {
+            rethrowFailure();
+            if (!thread.isAlive()) {
+                rethrowFailure();
+                throw new IllegalStateException("the staging writer stopped before the upload's slices were staged");
+            }
+        }
+
+        void rethrowFailure() {
+            Throwable t = failure;
+            if (t instanceof RuntimeException e) {
+                throw e;
+            }
+            if (t instanceof Error e) {
+                throw e;
+            }
+            if (t != null) {
+                throw new IllegalStateException("staging the upload failed", t);
+            }
+        }
+
+        /** Tells the thread to stop after the item in hand and waits for it (uninterruptibly; the flag is kept). */
+        void stop() {
+            stopped = true;
+            queue.clear();
+            queue.offer(END);
+            boolean interrupted = false;
+            while (thread.isAlive()) {
+                try {
+                    thread.join();
+                } catch (InterruptedException e) {
+                    interrupted = true;
+                }
+            }
+            if (interrupted) {
+                Thread.currentThread().interrupt();
+            }
+        }
+
+        @Override
+        public void run() {
+            List<Encoded> batch = new ArrayList<>();
+            long batchBytes = 0;
+            try {
+                while (!stopped) {
+                    CrossSection cs = queue.take();
+                    if (cs == END) {
+                        break;
+                    }
+                    long t0 = System.nanoTime();
+                    byte[] payload = CrossSectionCodec.encode(cs);
+                    encodeNanos += System.nanoTime() - t0;
+                    batch.add(new Encoded(cs.date(), cs.size(), payload));
+                    batchBytes += payload.length;
+                    if (batchBytes >= BATCH_BYTES || batch.size() >= BATCH_SLICES) {
+                        insert(batch);
+                        batch.clear();
+                        batchBytes = 0;
+                    }
+                }
+                if (!stopped && !batch.isEmpty()) {
+                    insert(batch);
+                }
+            } catch (Throwable t) {
+                failure = t;
+            }
+        }
+
+        private void insert(List<Encoded> batch) {
+            long t0 = System.nanoTime();
+            try {
+                insertBatch(batch);
+            } finally {
+                writeNanos += System.nanoTime() - t0;
+            }
+            slices += batch.size();
+            for (Encoded e : batch) {
+                bytes += e.payload().length;
+            }
         }
     }
 
@@ -181,9 +219,5 @@ public final class SliceStager implements AutoCloseable {
             }
             payloads.execute();
         });
-        stagedSlices += batch.size();
-        for (Encoded e : batch) {
-            stagedBytes += e.payload().length;
-        }
     }
 }
