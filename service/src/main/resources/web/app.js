@@ -242,17 +242,30 @@ async function chartFigure(kind, path) {
   return el('figure', { class: 'chart', 'data-chart': kind }, document.importNode(svg, true));
 }
 
-async function showCharts(name, holder) {
+// methods whose factors have stored bucket portfolios, and those whose signal has information coefficients
+const PORTFOLIO_METHODS = ['sort', 'size_sort'];
+const SIGNAL_METHODS = ['sort', 'size_sort', 'rank_weighted'];
+
+async function showCharts(name, method, holder) {
   const log = document.getElementById('opt-log').checked;
   const net = document.getElementById('opt-net').checked;
   const base = '/v1/factors/' + encodeURIComponent(name) + '/charts/';
-  const query = (extra) => '?width=900&height=380' + (net ? '&net=true' : '') + extra;
+  const size = '?width=900&height=380';
+  const query = (extra) => size + (net ? '&net=true' : '') + extra;
   status('Drawing charts\u2026');
-  const figures = await Promise.all([
+  const wanted = [
     chartFigure('cumulative', base + 'cumulative' + query(log ? '&log=true' : '')),
     chartFigure('drawdowns', base + 'drawdowns' + query('')),
     chartFigure('significance', base + 'significance' + query('')),
-  ]);
+  ];
+  // bucket means and information coefficients are gross and on their own basis: the net switch does not apply
+  if (PORTFOLIO_METHODS.includes(method)) {
+    wanted.push(chartFigure('portfolios', base + 'portfolios' + size));
+  }
+  if (SIGNAL_METHODS.includes(method)) {
+    wanted.push(chartFigure('ic', base + 'ic' + size + '&horizons=1,3,6,12'));
+  }
+  const figures = await Promise.all(wanted);
   holder.replaceChildren(...figures);
   status('');
 }
@@ -294,9 +307,9 @@ async function showFactor(name) {
     el('h2', {}, 'Definition'),
     def.rationale ? el('p', {}, el('strong', {}, 'Rationale: '), def.rationale) : null,
     el('pre', { class: 'definition', tabindex: '0', 'aria-label': 'Definition as JSON' }, JSON.stringify(def, null, 2)));
-  controls.addEventListener('change', () => showCharts(name, charts).catch(fail));
+  controls.addEventListener('change', () => showCharts(name, def.method, charts).catch(fail));
   await Promise.all([
-    showCharts(name, charts),
+    showCharts(name, def.method, charts),
     api('/v1/factors/' + encodeURIComponent(name) + '/evidence').then((report) => {
       sections.replaceChildren(...SECTIONS.filter((k) => report[k]).map((k) => sectionBox(k, report[k])));
     }),

@@ -13,7 +13,9 @@ import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
+import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.InvalidRequestException;
+import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
@@ -47,7 +49,8 @@ public final class ApiServer {
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
                                InformationCoefficients informationCoefficients,
-                               Health.Check health, FactorHoldings holdings, Families families) {
+                               Health.Check health, FactorHoldings holdings, Families families,
+                               FactorLibrary factorLibrary, PortfolioRiskStudy portfolioRisk) {
     }
 
     private ApiServer() {
@@ -76,8 +79,8 @@ public final class ApiServer {
         metrics.watch(served);
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
-        LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
-        ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios());
+        LibraryRoutes library = new LibraryRoutes(d.factorLibrary(), d.portfolioRisk(), d.panels(), served);
+        ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios(), d.informationCoefficients());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
         LoadingsRoutes loadings = new LoadingsRoutes(d.panels(), d.loadings());

@@ -18,6 +18,8 @@ import dev.winnow.stats.Correlations;
 import dev.winnow.stats.DrawdownReport;
 import dev.winnow.stats.Drawdowns;
 import dev.winnow.research.FactorPortfolios;
+import dev.winnow.research.InformationCoefficients;
+import dev.winnow.stats.EstimateSeries;
 import dev.winnow.stats.FrequencyConversion;
 import dev.winnow.stats.PeriodStatistics;
 import dev.winnow.stats.ReturnSeries;
@@ -42,10 +44,12 @@ final class ChartRoutes {
 
     private final FactorStore factors;
     private final FactorPortfolios portfolios;
+    private final InformationCoefficients informationCoefficients;
 
-    ChartRoutes(FactorStore factors, FactorPortfolios portfolios) {
+    ChartRoutes(FactorStore factors, FactorPortfolios portfolios, InformationCoefficients informationCoefficients) {
         this.factors = factors;
         this.portfolios = portfolios;
+        this.informationCoefficients = informationCoefficients;
     }
 
     /** The wealth index 1 + cumulative return of the spread (or net spread), with the legs as thinner lines. */
@@ -204,7 +208,7 @@ final class ChartRoutes {
      */
     void portfolios(Context ctx) {
         Requests.rejectParams(ctx, "the portfolios chart (portfolios have no net or leg form)", "net", "leg", "form");
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         Size size = Size.of(ctx);
         if (Responses.notModified(ctx, v, false)) {
@@ -219,8 +223,7 @@ final class ChartRoutes {
         List<BarChart.Bar> bars = new ArrayList<>();
         for (int k = 0; k < table.names().size(); k++) {
             PeriodStatistics p = PeriodStatistics.of(withoutGaps(table.dates(), table.returns().get(k)));
-            bars.add(new BarChart.Bar(table.names().get(k), p.mean(), Double.isFinite(p.nwTStat())
-                    ? "t " + String.format(Locale.ROOT, "%.2f", p.nwTStat()).replace('-', '\u2212') : "t n/a"));
+            bars.add(new BarChart.Bar(table.names().get(k), p.mean(), tNote(p.nwTStat())));
         }
         String desc = "Mean " + table.frequency().wireName() + " return of each portfolio of factor " + v.name() + " version "
                 + v.version() + " (" + String.join(", ", table.names()) + ") from " + table.dates().get(0) + " to "
@@ -243,12 +246,49 @@ final class ChartRoutes {
         return new ReturnSeries(d.toArray(LocalDate[]::new), r.stream().mapToDouble(Double::doubleValue).toArray());
     }
 
-    /** The IC chart is not drawn yet: a 409 that points to the numbers it would draw. */
+    /**
+     * The mean information coefficient at each horizon as a bar, with the Newey-West t of that mean written beside
+     * it: the {@code summary} {@code GET /v1/factors/{factor}/ic} serves for the same {@code horizons},
+     * {@code method}, {@code min_securities}, {@code from}, {@code to} and {@code version} (computed by the same
+     * {@link InformationCoefficients#run}). The IC is on the panel's grid, so {@code frequency}, {@code net},
+     * {@code leg} and {@code form} do not apply.
+     */
     void ic(Context ctx) {
-        SeriesRequest request = SeriesRequest.of(ctx, factors, ctx.pathParam("factor"));
-        Size.of(ctx);
-        throw new ApiProblem(409, "Conflict", "The ic chart of '" + request.version().name() + "' (mean information coefficient by"
-                + " horizon) is not drawn by this server yet; GET /v1/factors/{factor}/ic serves its numbers as JSON or CSV.");
+        Requests.rejectParams(ctx, "the ic chart (information coefficients are on the panel's grid, gross, of the signal)",
+                "frequency", "net", "leg", "form");
+        IcRequest request = IcRequest.of(ctx, factors);
+        Size size = Size.of(ctx);
+        FactorVersionRecord v = request.version();
+        if (Responses.notModified(ctx, v, false)) {
+            return;
+        }
+        InformationCoefficients.Result r = informationCoefficients.run(request.study());
+        if (r.dates().isEmpty()) {
+            throw ApiProblem.badRequest("Factor '" + v.name() + "' has no panel dates between the requested dates;"
+                    + " widen 'from'/'to'.");
+        }
+        List<BarChart.Bar> bars = new ArrayList<>();
+        List<String> horizons = new ArrayList<>();
+        for (int k = 0; k < r.horizons().size(); k++) {
+            EstimateSeries s = r.summary().get(k);
+            String h = String.valueOf(r.horizons().get(k));
+            horizons.add(h);
+            bars.add(new BarChart.Bar(h, s.mean(), tNote(s.nwTStat())));
+        }
+        String method = r.method() == Correlations.Method.SPEARMAN ? "Spearman" : "Pearson";
+        String desc = "Mean " + method + " information coefficient of the signal of factor " + v.name() + " version " + v.version()
+                + " with the one-period return h grid periods later, for h = " + String.join(", ", horizons) + ", over formation dates from "
+                + r.dates().get(0) + " to " + r.dates().get(r.dates().size() - 1) + " with at least " + request.study().minSecurities()
+                + " securities; each bar is labelled with the Newey-West t-statistic of its mean (the raw signal is used, so a"
+                + " low_minus_high factor that works has negative bars).";
+        BarChart chart = new BarChart("Horizon (grid periods ahead)", "Mean " + method + " IC (correlation)", ValueAxis.Format.NUMBER,
+                bars, Palette.SPREAD);
+        respond(ctx, chart.render(size.frame("Information coefficients of " + v.name(), desc, ctx.res().getHeader("ETag"))));
+    }
+
+    /** A t-statistic as written beside a bar: two decimals, a true minus sign, "n/a" when undefined. */
+    private static String tNote(double t) {
+        return Double.isFinite(t) ? "t " + String.format(Locale.ROOT, "%.2f", t).replace('-', '\u2212') : "t n/a";
     }
 
     private static void respond(Context ctx, String svg) {

@@ -10,7 +10,6 @@ import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.stats.FactorModelTest;
-import dev.winnow.stats.Correlations;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
@@ -47,22 +46,15 @@ final class CrossSectionRoutes {
 
     /** {@code GET /v1/factors/{factor}/ic?horizons&method&min_securities&from&to&version}. */
     void informationCoefficients(Context ctx) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
-        List<Integer> horizons = horizonsParam(ctx);
-        String method = Requests.choiceParam(ctx, "method", List.of("spearman", "pearson"), "spearman");
-        Integer min = Requests.intParam(ctx, "min_securities", 3, 1_000_000);
-        LocalDate from = Requests.dateParam(ctx, "from");
-        LocalDate to = Requests.dateParam(ctx, "to");
-        Requests.checkRange(from, to);
+        IcRequest request = IcRequest.of(ctx, factors);
         boolean csv = Responses.wantsCsv(ctx);
-        if (Responses.notModified(ctx, v, csv)) {
+        if (Responses.notModified(ctx, request.version(), csv)) {
             return;
         }
-        InformationCoefficients.Result r = informationCoefficients.run(new InformationCoefficients.Request(v, horizons,
-                method.equals("pearson") ? Correlations.Method.PEARSON : Correlations.Method.SPEARMAN, min == null ? 10 : min, from, to));
+        InformationCoefficients.Result r = informationCoefficients.run(request.study());
         if (csv) {
             StringBuilder sb = new StringBuilder("date");
-            horizons.forEach(h -> sb.append(",ic_").append(h));
+            r.horizons().forEach(h -> sb.append(",ic_").append(h));
             sb.append('\n');
             for (int t = 0; t < r.dates().size(); t++) {
                 sb.append(r.dates().get(t));
@@ -74,41 +66,12 @@ final class CrossSectionRoutes {
             Responses.csv(ctx, sb.toString());
             return;
         }
-        Json.respond(ctx, CrossSectionWire.InformationCoefficients.of(r, method));
-    }
-
-    private static List<Integer> horizonsParam(Context ctx) {
-        List<String> items = Requests.listParam(ctx, "horizons");
-        if (items == null) {
-            return List.of(1);
-        }
-        if (items.isEmpty() || items.size() > InformationCoefficients.MAX_HORIZONS) {
-            throw ApiProblem.badRequest("Query parameter 'horizons' lists 1 to " + InformationCoefficients.MAX_HORIZONS
-                    + " horizons separated by commas, as horizons=1,3,12; got " + items.size() + ".");
-        }
-        List<Integer> out = new ArrayList<>();
-        for (String item : items) {
-            int h;
-            try {
-                h = Integer.parseInt(item);
-            } catch (NumberFormatException e) {
-                throw ApiProblem.badRequest("Query parameter 'horizons' must list whole numbers of grid periods from 1 to "
-                        + InformationCoefficients.MAX_HORIZON + "; got '" + item + "'.");
-            }
-            if (h < 1 || h > InformationCoefficients.MAX_HORIZON) {
-                throw ApiProblem.badRequest("Each horizon must be from 1 to " + InformationCoefficients.MAX_HORIZON + " grid periods; got " + h + ".");
-            }
-            if (out.contains(h)) {
-                throw ApiProblem.badRequest("Query parameter 'horizons' lists " + h + " twice; list each horizon once.");
-            }
-            out.add(h);
-        }
-        return out;
+        Json.respond(ctx, CrossSectionWire.InformationCoefficients.of(r, request.method()));
     }
 
     /** {@code GET /v1/factors/{factor}/portfolios?from&to&frequency&form&version}. */
     void portfolios(Context ctx) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"), 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         boolean csv = Responses.wantsCsv(ctx);
         if (Responses.notModified(ctx, v, csv)) {

@@ -21,7 +21,7 @@ record ExposuresRequest(PanelRecord panel, LocalDate date, List<String> securiti
     static ExposuresRequest of(Context ctx, PanelStore panels) {
         JsonNode body = Json.readObject(ctx);
         Requests.allowOnly(body, Set.of("panel", "date", "factors", "holdings", "window", "min_obs"));
-        PanelRecord panel = PanelLookup.visible(panels, Requests.requiredText(body, "panel"));
+        PanelRecord panel = PanelLookup.fromBody(panels, Requests.requiredText(body, "panel"));
         LocalDate date = Requests.dateField(body, "date");
         Holdings holdings = Holdings.of(body, "holdings", true);
         return new ExposuresRequest(panel, date != null ? date : panel.lastDate(), holdings.securities(), holdings.weights(),

@@ -21,7 +21,7 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
 
     /** Reads the factor named in the path and the series parameters of the query. */
     static SeriesRequest of(Context ctx, FactorStore factors, String factorName) {
-        FactorVersionRecord v = FactorLookup.version(ctx, factors, factorName, 400);
+        FactorVersionRecord v = FactorLookup.version(ctx, factors, factorName);
         String legText = Requests.choiceParam(ctx, "leg", List.of("spread", "long", "short"), "spread");
         boolean net = Requests.booleanParam(ctx, "net");
         if (net && !legText.equals("spread")) {

@@ -14,7 +14,9 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.FactorPortfolios;
+import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
@@ -110,11 +112,15 @@ public final class Winnow implements AutoCloseable {
         Breadth breadth = new Breadth(panels, factors);
         TrialLibrary library = new TrialLibrary(factors);
         Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
+        SeriesNames seriesNames = new SeriesNames(factors);
+        LoadingsService loadingsService = new LoadingsService(panels, factors, loadings, queue);
+        FactorLibrary factorLibrary = new FactorLibrary(factors, seriesNames);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
-                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
-                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
+                loadingsService, new SignalPreview(panels, factors),
+                new FamaMacBethStudy(panels, factors), new ModelTests(seriesNames), new FactorPortfolios(factors),
+                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families,
+                factorLibrary, new PortfolioRiskStudy(loadingsService, factorLibrary)), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 

@@ -33,7 +33,7 @@ public final class EvidenceJson {
         out.put("p_bh", row.pBh());
         out.put("p_by", row.pBy());
         out.put("passes_t3", row.passesT3());
-        out.put("sharpe", s.sharpe());
+        out.put("sharpe_monthly", s.sharpe());
         out.put("psr", row.psr());
         out.put("deflated_sharpe", row.deflatedSharpe());
         out.put("note", trial.note());

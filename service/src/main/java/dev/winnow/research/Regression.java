@@ -52,7 +52,8 @@ public record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) 
         try {
             return new Regression(spec, LoadingsFactors.currentVersions(factors, spec.factors()));
         } catch (NoSuchElementException e) {
-            throw new UnknownNameException(e.getMessage());
+            // the factors are named in the query or body, not in the path: a bad request naming the factor
+            throw new InvalidRequestException(e.getMessage());
         } catch (IllegalStateException e) {
             throw new InvalidRequestException(e.getMessage());
         }

@@ -56,6 +56,7 @@ public final class Themes {
         double[][] correlation = Correlations.matrix(clusteredSeries, Correlations.Method.PEARSON).matrix();
         ThemeComparison comparison = ThemeComparison.of(clusteredNames, clusteredThemes, correlation, threshold);
         Map<String, Object> out = new LinkedHashMap<>();
+        out.put("basis", "monthly");
         out.put("threshold", threshold);
         out.put("declared", ThemeComparison.declaredGroups(live.stream().map(Trial::name).toList(),
                         live.stream().map(Trial::theme).toList()).stream()

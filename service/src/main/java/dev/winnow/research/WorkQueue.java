@@ -2,7 +2,7 @@ package dev.winnow.research;
 
 /**
  * The background work the use cases start; the job queue implements it, so that this package needs nothing of
- * {@code dev.winnow.jobs}.
+ * the jobs package.
  */
 public interface WorkQueue {
     /** Queues the build of one factor version; returns the job id. */

@@ -535,9 +535,24 @@ public final class FactorStore {
      * the definition does). Cached like {@link #series} and checked against the data version.
      */
     public Map<String, ReturnSeries> portfolios(long factorId, int version) {
-        long dataVersion = dataVersion(factorId, version);
+        return portfolios(factorId, version, -1);
+    }
+
+    /**
+     * The same for a version whose data version the caller already knows (from the {@link #catalog()}): no query
+     * when the portfolios of that data version are held in memory.
+     */
+    public Map<String, ReturnSeries> portfolios(FactorVersionRecord v) {
+        return portfolios(v.factorId(), v.version(), v.dataVersion());
+    }
+
+    private Map<String, ReturnSeries> portfolios(long factorId, int version, long knownDataVersion) {
         SeriesKey key = new SeriesKey(factorId, version, null);
         CachedPortfolios cached = recentPortfolios.get(key);
+        if (cached != null && knownDataVersion >= 0 && cached.dataVersion() == knownDataVersion) {
+            return cached.series();
+        }
+        long dataVersion = dataVersion(factorId, version);
         if (cached != null && cached.dataVersion() == dataVersion) {
             return cached.series();
         }

@@ -453,10 +453,10 @@ class AnalyticsEndToEndTest {
         problem("/v1/correlations/rolling?factors=xs,ghost&window=3", 400);
         problem("/v1/correlations/rolling?factors=xs&window=3", 400);
         problem("/v1/correlations/rolling?factors=xs,ys,zs&window=3", 400);
-        // "Unknown factors ... give 400" (issue 4), also when the factor is named in the path
-        problem("/v1/factors/ghost/summary", 400);
-        problem("/v1/factors/ghost/drawdowns", 400);
-        problem("/v1/factors/ghost/significance?window=3", 400);
+        // a factor named in the path that does not exist is a 404 on every endpoint (issue 15)
+        problem("/v1/factors/ghost/summary", 404);
+        problem("/v1/factors/ghost/drawdowns", 404);
+        problem("/v1/factors/ghost/significance?window=3", 404);
 
         // empty overlap: "old" (2010) shares no date with xs (2018); a range with no observations
         problem("/v1/correlations?factors=xs,old", 400);

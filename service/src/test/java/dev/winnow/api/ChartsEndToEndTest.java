@@ -215,13 +215,50 @@ class ChartsEndToEndTest {
         TestServer.assertProblem(server.get("/v1/factors/size/charts/portfolios?net=true"), 400);
     }
 
+    /** The bars of an IC chart against the {@code summary} of {@code /ic} for the same query, at the chart's scale. */
+    static void assertIcBars(String factor, String query) {
+        SvgChart chart = chart("/v1/factors/" + factor + "/charts/ic?" + query);
+        JsonNode summary = server.get("/v1/factors/" + factor + "/ic?" + query).json().path("summary");
+        List<Element> bars = chart.withClass("bar");
+        assertEquals(summary.size(), bars.size());
+        double zero = chart.y(0);
+        for (int i = 0; i < bars.size(); i++) {
+            Element bar = bars.get(i);
+            JsonNode s = summary.get(i);
+            assertEquals(s.path("horizon").asText(), bar.getAttribute("data-category"));
+            double mean = s.path("mean").asDouble();
+            assertEquals(mean, Double.parseDouble(bar.getAttribute("data-value")), 0.0, "the mean IC as /ic serves it");
+            assertEquals(Math.min(chart.y(mean), zero), Double.parseDouble(bar.getAttribute("y")), 0.0051, "bar " + i + " top");
+            assertEquals(Math.abs(chart.y(mean) - zero), Double.parseDouble(bar.getAttribute("height")), 0.0102, "bar " + i + " height");
+            String t = String.format(java.util.Locale.ROOT, "t %.2f", s.path("nw_t_stat").asDouble()).replace('-', '\u2212');
+            assertEquals(t, chart.withClass("bar-note").get(i).getTextContent());
+        }
+        for (Element tick : chart.withClass("y-tick")) {
+            assertEquals(chart.y(Double.parseDouble(tick.getAttribute("data-value"))) + 4, Double.parseDouble(tick.getAttribute("y")), 0.0051);
+        }
+        assertTrue(chart.text("title").contains(factor), chart.text("title"));
+    }
+
     @Test
-    void icChartSaysWhichDataItNeeds() {
-        TestServer.Reply r = server.get("/v1/factors/value_quintile_cap/charts/ic");
-        TestServer.assertProblem(r, 409);
-        assertTrue(r.json().path("detail").asText().contains("GET /v1/factors/{factor}/ic"), r.body());
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 400);
+    void icChartDrawsTheMeanInformationCoefficientOfEachHorizonWithItsNeweyWestT() {
+        assertIcBars("value_quintile_cap", "horizons=1,3,6,12&from=2004-01-01&width=700&height=360");
+        assertIcBars("momentum", "horizons=1,2&method=pearson&min_securities=50&to=2020-12-31");
+        // investment is low_minus_high on asset growth: the raw signal predicts negatively, so its bars point down
+        SvgChart chart = chart("/v1/factors/investment/charts/ic?horizons=1");
+        assertTrue(Double.parseDouble(chart.withClass("bar").get(0).getAttribute("data-value")) < 0);
+        assertTrue(chart.text("desc").contains("Spearman") && chart.text("desc").contains("h = 1"), chart.text("desc"));
+    }
+
+    @Test
+    void icChartRejectsWhatTheNumbersDoNotTake() {
+        TestServer.assertProblem(server.get("/v1/factors/market/charts/ic"), 409);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/ic"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?width=5"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?horizons=0"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?method=kendall"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?net=true"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?frequency=quarterly"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/value/charts/ic?from=2030-01-01"), 400);
     }
 
     @Test
@@ -243,7 +280,7 @@ class ChartsEndToEndTest {
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?height=99999"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?leg=long"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/cumulative?log=maybe"), 400);
-        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 400);
+        TestServer.assertProblem(server.get("/v1/factors/nope/charts/cumulative"), 404);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/drawdowns?from=2030-01-01"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/significance?window=100000"), 400);
         TestServer.assertProblem(server.get("/v1/factors/value/charts/pie"), 404);

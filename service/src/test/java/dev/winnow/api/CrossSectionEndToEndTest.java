@@ -148,9 +148,11 @@ class CrossSectionEndToEndTest {
         assertEquals("date,ic_1,ic_3", csv.body().split("\n")[0]);
         for (String bad : new String[] {"/v1/factors/ic_value/ic?horizons=0", "/v1/factors/ic_value/ic?horizons=61",
                 "/v1/factors/ic_value/ic?horizons=1,1", "/v1/factors/ic_value/ic?horizons=x", "/v1/factors/ic_value/ic?min_securities=2",
-                "/v1/factors/ic_value/ic?method=kendall", "/v1/factors/nope/ic"}) {
+                "/v1/factors/ic_value/ic?method=kendall"}) {
             FiniteJson.problem(server.get(bad), 400, bad);
         }
+        // the factor is named in the path: unknown is a 404
+        FiniteJson.problem(server.get("/v1/factors/nope/ic"), 404, "unknown");
         FiniteJson.problem(server.get("/v1/factors/f0/ic"), 409, "external");
     }
 

@@ -73,7 +73,7 @@ class EvidenceEndToEndTest {
             }
             for (String[] field : new String[][] {{"mean", "mean"}, {"nw_t", "nw_t_stat"}, {"p", "p_value"},
                     {"p_bonferroni", "p_bonferroni"}, {"p_holm", "p_holm"}, {"p_bh", "p_bh"}, {"p_by", "p_by"},
-                    {"sharpe", "sharpe"}, {"psr", "psr"}, {"deflated_sharpe", "deflated_sharpe"}}) {
+                    {"sharpe", "sharpe_monthly"}, {"psr", "psr"}, {"deflated_sharpe", "deflated_sharpe"}}) {
                 assertEquals(want.get(field[0]).asDouble(), got.get(field[1]).asDouble(), TOLERANCE, name + " " + field[1]);
             }
             assertEquals(want.get("passes_t3").asBoolean(), got.get("passes_t3").asBoolean(), name);

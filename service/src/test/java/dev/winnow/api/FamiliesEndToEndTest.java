@@ -98,7 +98,7 @@ class FamiliesEndToEndTest {
             assertEquals(row.path("nw_t_stat").asDouble(), v.path("nw_t_stat").asDouble(), 0.0);
             assertEquals(row.path("mean").asDouble(), v.path("mean").asDouble(), 0.0);
             assertEquals(row.path("p_value").asDouble(), v.path("p_value").asDouble(), 0.0);
-            assertEquals(row.path("sharpe").asDouble(), v.path("sharpe_monthly").asDouble(), 0.0);
+            assertEquals(row.path("sharpe_monthly").asDouble(), v.path("sharpe_monthly").asDouble(), 0.0);
             assertEquals(row.path("n").asInt(), v.path("n").asInt());
             double ti = row.path("nw_t_stat").asDouble();
             t.add(ti);

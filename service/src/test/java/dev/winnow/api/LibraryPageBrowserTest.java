@@ -167,6 +167,9 @@ class LibraryPageBrowserTest {
         assertTrue(plottedPoints("drawdowns") >= 290);
         assertTrue(plottedPoints("significance") >= 200);
         assertEquals(3, driver.findElements(By.cssSelector("figure[data-chart='cumulative'] svg path.series")).size(), "spread and both legs");
+        // value is a size_sort: its six 2x3 portfolios as bars, and the mean IC of its signal at the page's four horizons
+        assertEquals(6, driver.findElements(By.cssSelector("figure[data-chart='portfolios'] svg rect.bar")).size());
+        assertEquals(4, driver.findElements(By.cssSelector("figure[data-chart='ic'] svg rect.bar")).size());
         waiting(120).until(d -> d.findElements(By.cssSelector("#sections section[data-section]")).size() == 7);
         for (WebElement section : driver.findElements(By.cssSelector("#sections section[data-section] .verdict"))) {
             assertTrue(BADGE.matcher(section.getText()).matches(), section.getText());

@@ -372,10 +372,10 @@ class LoadingsEndToEndTest {
     @Test
     void badInputIsAProblem() {
         String base = "/v1/loadings?panel=" + PANEL + "&factors=a,b";
-        // unknown panel or factor: 404, as for every unknown resource (openapi.yaml documents it)
-        problem("/v1/loadings?panel=nowhere&factors=a,b", 404);
-        problem("/v1/loadings?panel=nowhere&kind=characteristic&columns=leverage", 404);
-        problem(base.replace("a,b", "a,ghost"), 404);
+        // unknown panel or factor named in the query: 400 naming it (a 404 is for names in the path)
+        problem("/v1/loadings?panel=nowhere&factors=a,b", 400);
+        problem("/v1/loadings?panel=nowhere&kind=characteristic&columns=leverage", 400);
+        problem(base.replace("a,b", "a,ghost"), 400);
         problem("/v1/loadings?factors=a,b", 400);
         problem("/v1/loadings?panel=bad%20name&factors=a,b", 400);
 
@@ -414,14 +414,14 @@ class LoadingsEndToEndTest {
         problemPost(head + "\"holdings\":[{\"security\":\"" + code(0) + "\",\"weight\":\"lots\"}]}", 400);
         problemPost(head + "\"holdings\":[{\"security\":\"" + code(0) + "\",\"weight\":1},{\"security\":\"" + code(0) + "\",\"weight\":1}]}", 400);
         problemPost(head + "\"date\":\"2020-06-15\",\"holdings\":[{\"security\":\"" + code(0) + "\",\"weight\":1}]}", 400);
-        problemPost("{\"panel\":\"nowhere\",\"factors\":[\"a\",\"b\"],\"holdings\":[{\"security\":\"X\",\"weight\":1}]}", 404);
+        problemPost("{\"panel\":\"nowhere\",\"factors\":[\"a\",\"b\"],\"holdings\":[{\"security\":\"X\",\"weight\":1}]}", 400);
         problemPost(head + "\"holdings\":[{\"security\":\"" + code(0) + "\",\"weight\":1}],\"colour\":\"blue\"}", 400);
         problemPost("[1,2]", 400);
 
         // configuration
         problem("/v1/panels/nowhere/loadings-config", 404);
         FiniteJson.problem(server.putJson("/v1/panels/" + PANEL + "/loadings-config", "{\"window\":60}", ADMIN), 400, "config without factors");
-        FiniteJson.problem(server.putJson("/v1/panels/" + PANEL + "/loadings-config", "{\"factors\":[\"ghost\"]}", ADMIN), 404, "config with an unknown factor");
+        FiniteJson.problem(server.putJson("/v1/panels/" + PANEL + "/loadings-config", "{\"factors\":[\"ghost\"]}", ADMIN), 400, "config with an unknown factor");
     }
 
     // ---------------------------------------------------------------------------------------------------------------

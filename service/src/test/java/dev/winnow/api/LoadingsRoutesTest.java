@@ -242,8 +242,8 @@ class LoadingsRoutesTest {
     void badInputGetsProblemsNeverServerErrors() {
         String base = "/v1/loadings?panel=" + PANEL;
         assertProblem(get("/v1/loadings?factors=mkt"), 400, "panel");
-        assertProblem(get("/v1/loadings?panel=no-such-panel&factors=mkt"), 404, "no-such-panel");
-        assertProblem(get(base + "&factors=mkt,unicorn&window=30"), 404, "unicorn");
+        assertProblem(get("/v1/loadings?panel=no-such-panel&factors=mkt"), 400, "no-such-panel");
+        assertProblem(get(base + "&factors=mkt,unicorn&window=30"), 400, "unicorn");
         assertProblem(get(base + "&factors=,&window=30"), 400, "at least one factor");
         assertProblem(get(base + "&factors=mkt,mkt&window=30"), 400, "twice");
         assertProblem(get(base + "&factors=mkt"), 400, "larger than the 70 dates");

@@ -133,7 +133,7 @@ class PanelFactorEndToEndTest {
         server.awaitJob(v2.json().path("job").asText());
         assertEquals(-0.015, server.get("/v1/factors/tilt/returns").json().path("returns").get(0).asDouble(), 1e-15);
         assertEquals(0.015, server.get("/v1/factors/tilt/returns?version=1").json().path("returns").get(0).asDouble(), 1e-15);
-        assertProblem(server.get("/v1/factors/tilt/returns?version=9"), 400);
+        assertProblem(server.get("/v1/factors/tilt/returns?version=9"), 404);
         assertProblem(server.get("/v1/factors/tilt?version=9"), 404);
 
         // retire: gone from the list unless asked, series kept
@@ -164,7 +164,7 @@ class PanelFactorEndToEndTest {
         assertProblem(server.putJson("/v1/factors/x", "{\"panel\":\"acme\",\"method\":\"teleport\"}", ADMIN), 400);
         assertProblem(server.putJson("/v1/factors/x", "{", ADMIN), 400);
         assertProblem(server.get("/v1/factors/x"), 404);
-        assertProblem(server.get("/v1/factors/x/returns"), 400);
+        assertProblem(server.get("/v1/factors/x/returns"), 404);
     }
 
     @Test

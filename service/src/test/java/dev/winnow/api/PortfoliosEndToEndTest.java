@@ -32,11 +32,20 @@ class PortfoliosEndToEndTest {
         expected = CrossSectionEndToEndTest.readJson("xsection_expected.json").get("portfolios");
         JsonNode job = server.upload("/v1/panels/xs/uploads", CrossSectionEndToEndTest.readText("xsection_panel.csv"));
         assertEquals("succeeded", job.path("state").asText(), job.toString());
-        for (Iterator<Map.Entry<String, JsonNode>> it = expected.fields(); it.hasNext(); ) {
-            Map.Entry<String, JsonNode> e = it.next();
-            ObjectNode def = ((ObjectNode) e.getValue().get("definition")).deepCopy();
+        List<String> names = new ArrayList<>();
+        expected.fieldNames().forEachRemaining(names::add);
+        defineReferenceFactors(server, expected, names);
+    }
+
+    /**
+     * Defines and builds on panel "xs" each named factor of the fixture's reference definitions, and an external
+     * factor "cash" (which has no portfolios).
+     */
+    static void defineReferenceFactors(TestServer server, JsonNode expected, List<String> names) {
+        for (String name : names) {
+            ObjectNode def = ((ObjectNode) expected.get(name).get("definition")).deepCopy();
             def.put("panel", "xs").put("theme", "test").put("rationale", "reference portfolios");
-            TestServer.Reply put = server.putJson("/v1/factors/" + e.getKey(), def.toString(), ADMIN);
+            TestServer.Reply put = server.putJson("/v1/factors/" + name, def.toString(), ADMIN);
             assertEquals(202, put.status(), put.body());
             JsonNode built = server.awaitJob(put.json().path("job").asText());
             assertEquals("succeeded", built.path("state").asText(), built.toString());
@@ -136,12 +145,12 @@ class PortfoliosEndToEndTest {
     }
 
     @Test
-    void otherMethodsAnswer409AndUnknownFactors400() {
+    void otherMethodsAnswer409AndUnknownFactors404() {
         TestServer.Reply r = server.get("/v1/factors/cash/portfolios");
         FiniteJson.problem(r, 409, "external");
         assertTrue(r.json().get("detail").asText().contains("sort"), r.body());
-        FiniteJson.problem(server.get("/v1/factors/nope/portfolios"), 400, "unknown");
-        FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?version=7"), 400, "version");
+        FiniteJson.problem(server.get("/v1/factors/nope/portfolios"), 404, "unknown");
+        FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?version=7"), 404, "version");
         FiniteJson.problem(server.get("/v1/factors/value_q5/portfolios?frequency=daily"), 400, "finer");
     }
 
