@@ -1,7 +1,7 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
@@ -123,7 +123,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
-            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(new JobParams.CompactStore())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);

@@ -6,7 +6,8 @@ import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.ChangeFeed;
 import dev.winnow.jobs.JobHandler;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
+import dev.winnow.store.JobKind;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.jobs.JobResources;
 import dev.winnow.jobs.JobWorker;
@@ -102,7 +103,7 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
+        Map<JobKind, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         Config.Instance instance = config.instance();
         this.worker = instance.role().runsJobs()
                 ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()),
@@ -216,9 +217,9 @@ public final class Winnow implements AutoCloseable {
      */
     private static int removeOrphanedSpoolFiles(JobStore jobs, UploadSpool spool) throws IOException {
         java.util.Set<String> referenced = new java.util.HashSet<>();
-        for (String kind : java.util.List.of(JobKinds.PANEL_UPLOAD, JobKinds.SERIES_UPLOAD)) {
+        for (JobKind kind : java.util.List.of(JobKind.PANEL_UPLOAD, JobKind.SERIES_UPLOAD)) {
             for (JobStore.JobRecord job : jobs.unfinished(kind)) {
-                referenced.add(String.valueOf(JsonText.readMap(job.params()).get("file")));
+                referenced.add(((JobParams.Upload) JobParams.of(job)).file());
             }
         }
         return spool.removeUnreferenced(referenced);
@@ -230,15 +231,13 @@ public final class Winnow implements AutoCloseable {
      */
     private static int requeueOrphanedBuilds(FactorStore factors, JobStore jobs, JobQueue queue) {
         java.util.Set<String> queued = new java.util.HashSet<>();
-        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FACTOR_BUILD)) {
-            Map<String, Object> params = JsonText.readMap(job.params());
-            queued.add(params.get("factor") + "#" + params.get("version"));
+        for (JobStore.JobRecord job : jobs.unfinished(JobKind.FACTOR_BUILD)) {
+            JobParams.FactorBuild params = JobParams.of(job, JobParams.FactorBuild.class);
+            queued.add(params.factor() + "#" + params.version());
         }
-        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FAMILY_BUILD)) {
-            @SuppressWarnings("unchecked")
-            java.util.List<Map<String, Object>> versions = (java.util.List<Map<String, Object>>) JsonText.readMap(job.params()).get("versions");
-            for (Map<String, Object> v : versions) {
-                queued.add(v.get("factor") + "#" + v.get("version"));
+        for (JobStore.JobRecord job : jobs.unfinished(JobKind.FAMILY_BUILD)) {
+            for (JobParams.FamilyBuild.Member v : JobParams.of(job, JobParams.FamilyBuild.class).versions()) {
+                queued.add(v.factor() + "#" + v.version());
             }
         }
         int count = 0;

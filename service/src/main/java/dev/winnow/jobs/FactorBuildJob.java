@@ -27,9 +27,9 @@ public final class FactorBuildJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String name = (String) params.get("factor");
-        int version = ((Number) params.get("version")).intValue();
+        JobParams.FactorBuild params = JobParams.of(job, JobParams.FactorBuild.class);
+        String name = params.factor();
+        int version = params.version();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
             return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));

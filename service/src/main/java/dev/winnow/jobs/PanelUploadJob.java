@@ -57,10 +57,10 @@ public final class PanelUploadJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) throws Exception {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String panelName = (String) params.get("panel");
-        boolean revise = "revise".equals(params.get("mode"));
-        String file = (String) params.get("file");
+        JobParams.PanelUpload params = JobParams.of(job, JobParams.PanelUpload.class);
+        String panelName = params.panel();
+        boolean revise = params.revise();
+        String file = params.file();
         long panelId = panels.createPanelIfAbsent(panelName);
 
         Map<String, Object> timings = new LinkedHashMap<>();
@@ -81,7 +81,7 @@ public final class PanelUploadJob implements JobHandler {
                 }
             });
             LocalDate lastDate = panel.visible() && !revise ? panel.lastDate() : null;
-            PanelUpload upload = new PanelUpload(spool.resolve(file), Boolean.TRUE.equals(params.get("gzip")),
+            PanelUpload upload = new PanelUpload(spool.resolve(file), params.gzip(),
                     revise ? UploadMode.REVISE : UploadMode.APPEND, lastDate, existing);
             long uploadId = panels.beginUpload(panelId, job.id(), revise ? "revise" : "append");
             PanelParseResult result;
@@ -156,7 +156,7 @@ public final class PanelUploadJob implements JobHandler {
     @Override
     public void afterEnd(JobRecord job) {
         panels.discardStagingOfJob(job.id());
-        spool.delete((String) JsonText.readMap(job.params()).get("file"));
+        spool.delete(JobParams.of(job, JobParams.PanelUpload.class).file());
     }
 
     /** The earliest of the dates, or null (then a revision rebuilds from scratch). */

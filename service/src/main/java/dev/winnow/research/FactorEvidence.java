@@ -149,8 +149,8 @@ public final class FactorEvidence {
 
     /**
      * The factors of the spanning regression: those named (each must be another live factor on the monthly basis),
-     * or by default every other live factor with at least min_months months in common with this one, risk-free rates
-     * left out (a near-constant regressor is almost collinear with the intercept).
+     * or by default every other live factor with at least min_months months in common with this one, inputs and
+     * risk-free rates left out (a near-constant regressor is almost collinear with the intercept).
      */
     public static List<Trial> against(Trial trial, Snapshot library, List<String> named) {
         List<Trial> live = library.live();
@@ -232,7 +232,7 @@ public final class FactorEvidence {
             for (Trial other : library.live()) {
                 boolean related = (theme != null && theme.equals(other.theme()))
                         || (family != null && family.equals(other.version().family()));
-                if (!other.name().equals(trial.name()) && related && other.usable()) {
+                if (!other.name().equals(trial.name()) && related && other.candidate()) {
                     members.add(other);
                 }
             }

@@ -158,7 +158,7 @@ public final class Families {
     }
 
     private Declared record(String name, JsonNode body, List<Variant> variants, List<FactorDefinitions.Checked> checked) {
-        List<Map<String, Object>> toBuild = new ArrayList<>();
+        List<WorkQueue.FactorVersion> toBuild = new ArrayList<>();
         List<DeclaredVariant> declared = new ArrayList<>();
         for (int i = 0; i < variants.size(); i++) {
             Variant v = variants.get(i);
@@ -176,10 +176,7 @@ public final class Families {
             }
             DefineOutcome outcome = definitions.record(v.factor(), checked.get(i));
             if (outcome.created()) {
-                Map<String, Object> entry = new LinkedHashMap<>();
-                entry.put("factor", v.factor());
-                entry.put("version", outcome.version().version());
-                toBuild.add(entry);
+                toBuild.add(new WorkQueue.FactorVersion(v.factor(), outcome.version().version()));
             }
             declared.add(new DeclaredVariant(v.n(), v.factor(), v.parameters().toString()));
         }

@@ -444,7 +444,7 @@ class RevisionCheckpointConsistencyTest {
 
         /** Stages and commits the cross-sections; security i gets code CO-i, so store ids equal the sections' ids. */
         void upload(List<CrossSection> sections, String mode) {
-            long uploadId = panels.beginUpload(panelId, jobs.enqueue("panel_upload", "{}"), mode);
+            long uploadId = panels.beginUpload(panelId, jobs.enqueue(dev.winnow.store.JobKind.PANEL_UPLOAD, "{}"), mode);
             SecurityDictionary dictionary = panels.securityDictionary(panelId, uploadId);
             TreeSet<Integer> ids = new TreeSet<>();
             sections.forEach(cs -> Arrays.stream(cs.securityIds()).forEach(ids::add));
