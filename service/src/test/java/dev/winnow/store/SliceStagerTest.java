@@ -36,7 +36,7 @@ class SliceStagerTest {
         store = TestDatabase.fresh(dir, "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
         database = Database.open(store.url(), 2, null);
         panels = new PanelStore(database.jdbi());
-        long jobId = new JobStore(database.jdbi()).enqueue("panel_upload", "{}");
+        long jobId = new JobStore(database.jdbi()).enqueue(JobKind.PANEL_UPLOAD, "{}");
         panelId = panels.createPanelIfAbsent("stager");
         uploadId = panels.beginUpload(panelId, jobId, "append");
     }
