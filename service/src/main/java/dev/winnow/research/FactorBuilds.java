@@ -311,7 +311,7 @@ public final class FactorBuilds {
         if (placed.contains(v.name()) || !visiting.add(v.name())) {
             return;
         }
-        if (!v.method().equals("external")) {
+        if (v.method() != FactorDefinition.Method.EXTERNAL) {
             FactorDefinition def = definition(v);
             for (String name : def.factorsRead()) {
                 FactorVersionRecord dependency = byName.get(name);
