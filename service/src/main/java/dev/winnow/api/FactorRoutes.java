@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.jobs.JobParams;
@@ -61,8 +62,8 @@ final class FactorRoutes {
         FactorVersionRecord v = factors.current(name)
                 .orElseThrow(() -> ApiProblem.notFound("No factor '" + name + "'; define it first with PUT /v1/factors/" + name
                         + " {\"method\":\"external\"}."));
-        if (!v.method().equals("external")) {
-            throw new ConflictException("Factor '" + name + "' is built from panel data (method " + v.method()
+        if (v.method() != FactorDefinition.Method.EXTERNAL) {
+            throw new ConflictException("Factor '" + name + "' is built from panel data (method " + DefinitionJson.wire(v.method())
                     + "); only method external takes uploaded returns.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
@@ -141,7 +142,7 @@ final class FactorRoutes {
         out.put("current_version", v.currentVersion());
         out.put("definition", Json.MAPPER.valueToTree(JsonText.readMap(v.definitionJson())));
         out.put("role", DefinitionJson.wire(roles.role(v.name())));
-        out.put("status", v.status());
+        out.put("status", v.status().wireName());
         out.put("retired", v.retired());
         out.put("first_date", s.firstDate());
         out.put("last_date", s.lastDate());

@@ -1,5 +1,7 @@
 package dev.winnow.app;
 
+import dev.winnow.store.VersionStatus;
+import dev.winnow.construct.FactorDefinition;
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
 import dev.winnow.api.Health;
@@ -242,7 +244,7 @@ public final class Winnow implements AutoCloseable {
         }
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {
-            if (v.status().equals("building") && !v.method().equals("external") && !queued.contains(v.name() + "#" + v.version())) {
+            if (v.status() == VersionStatus.BUILDING && v.method() != FactorDefinition.Method.EXTERNAL && !queued.contains(v.name() + "#" + v.version())) {
                 queue.queueFactorBuild(v.name(), v.version());
                 count++;
             }

@@ -1,5 +1,6 @@
 package dev.winnow.jobs;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
@@ -53,7 +54,7 @@ public final class FactorBuildJob implements JobHandler {
         List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.listCurrent(false));
         java.util.Set<String> changed = new java.util.HashSet<>(List.of(name));
         for (FactorVersionRecord dependent : live) {
-            if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
+            if (dependent.method() == FactorDefinition.Method.EXTERNAL || dependent.status() != VersionStatus.READY) {
                 continue;
             }
             FactorDefinition def = FactorBuilds.definition(dependent);

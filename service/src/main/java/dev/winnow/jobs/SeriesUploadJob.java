@@ -1,5 +1,6 @@
 package dev.winnow.jobs;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.ingest.ExternalSeriesParser;
 import dev.winnow.ingest.SeriesParseResult;
@@ -89,7 +90,7 @@ public final class SeriesUploadJob implements JobHandler {
     private List<Map<String, Object>> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
         List<Map<String, Object>> rebuilt = new ArrayList<>();
         for (FactorVersionRecord dependent : factors.listCurrent(false)) {
-            if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
+            if (dependent.method() == FactorDefinition.Method.EXTERNAL || dependent.status() != VersionStatus.READY) {
                 continue;
             }
             FactorDefinition def = FactorBuilds.definition(dependent);

@@ -1,5 +1,7 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorEngine;
 import dev.winnow.research.TrialLibrary.Snapshot;
@@ -87,7 +89,7 @@ public final class FactorEvidence {
         numbers.put("rank_correlation", Double.NaN);
         if (def == null || def.method() != FactorDefinition.Method.SORT) {
             return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(),
-                    "Only sort factors have buckets to compare; this is a " + trial.version().method() + " factor."), unavailable);
+                    "Only sort factors have buckets to compare; this is a " + DefinitionJson.wire(trial.version().method()) + " factor."), unavailable);
         }
         if (unavailable != null) {
             return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(), unavailable), unavailable);
@@ -188,8 +190,8 @@ public final class FactorEvidence {
         if (!trial.inTable()) {
             return "This factor is " + trial.exclusionReason() + "; it is no trial and has no evidence of its own.";
         }
-        if (!"ready".equals(trial.version().status())) {
-            return "This version's status is " + trial.version().status() + ", so it has no series yet.";
+        if (trial.version().status() != VersionStatus.READY) {
+            return "This version's status is " + trial.version().status().wireName() + ", so it has no series yet.";
         }
         return null;
     }

@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.stats.FactorCovariance;
 import dev.winnow.stats.Frequency;
 import dev.winnow.stats.FrequencyConversion;
@@ -78,7 +79,7 @@ public final class FactorLibrary {
             }
             List<SeriesNames.Named> live = new ArrayList<>();
             for (FactorVersionRecord v : factors.catalog().listCurrent(false)) {
-                if (v.status().equals("ready")) {
+                if (v.status() == VersionStatus.READY) {
                     live.add(new SeriesNames.Named(v.name(), v, null));
                 }
             }

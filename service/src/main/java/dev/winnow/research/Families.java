@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import com.fasterxml.jackson.annotation.JsonProperty;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
@@ -218,7 +219,7 @@ public final class Families {
             }
         }
         for (FactorVersionRecord c : candidates) {
-            if ("failed".equals(c.status())) {
+            if (c.status() == VersionStatus.FAILED) {
                 continue;
             }
             dev.winnow.construct.DefinitionJson.Parsed parsed = dev.winnow.construct.DefinitionJson.read(c.definitionJson());
@@ -372,10 +373,10 @@ public final class Families {
             FactorVersionRecord current = factors.current(v.factorName()).orElseThrow();
             TrialLibrary.Trial trial = snapshot.find(current).orElse(null);
             dev.winnow.stats.TrialStatistics s = trial == null || trial.row() == null ? null : trial.row().statistics();
-            rows.add(new VariantView(v.factorName(), current.version(), readJson(v.parametersJson()), current.status(),
+            rows.add(new VariantView(v.factorName(), current.version(), readJson(v.parametersJson()), current.status().wireName(),
                     s == null ? null : s.n(), finite(s == null ? Double.NaN : s.mean()), finite(s == null ? Double.NaN : s.nwTStat()),
                     finite(s == null ? Double.NaN : s.pValue()), finite(s == null ? Double.NaN : s.sharpe())));
-            if ("ready".equals(current.status()) && s != null && Double.isFinite(s.nwTStat())) {
+            if (current.status() == VersionStatus.READY && s != null && Double.isFinite(s.nwTStat())) {
                 readyTrials.add(trial);
             }
         }

@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorDefinition.Method;
@@ -58,7 +59,7 @@ public final class InformationCoefficients {
         FactorVersionRecord v = request.version();
         FactorDefinition def = FactorBuilds.definition(v);
         if (def.method() != Method.SORT && def.method() != Method.SIZE_SORT && def.method() != Method.RANK_WEIGHTED) {
-            throw new ConflictException("Factor '" + v.name() + "' is a " + v.method() + " factor and has no signal;"
+            throw new ConflictException("Factor '" + v.name() + "' is a " + DefinitionJson.wire(v.method()) + " factor and has no signal;"
                     + " information coefficients exist for sort, size_sort and rank_weighted factors.");
         }
         if (v.panelId() == null) {

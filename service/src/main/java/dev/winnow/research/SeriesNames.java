@@ -67,7 +67,7 @@ public final class SeriesNames {
         List<String> names = portfolioNames(v);
         if (names.isEmpty()) {
             throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' is a "
-                    + v.method() + " factor and has no portfolios; sort and size_sort factors have them.");
+                    + DefinitionJson.wire(v.method()) + " factor and has no portfolios; sort and size_sort factors have them.");
         }
         if (!names.contains(portfolio)) {
             throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' has no portfolio '"

@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.research.TrialLibrary.Snapshot;
 import dev.winnow.research.TrialLibrary.Trial;
@@ -49,7 +50,7 @@ public final class Themes {
                 Map<String, Object> e = new LinkedHashMap<>();
                 e.put("factor", t.name());
                 e.put("reason", t.excluded() ? t.basis().excludedReason()
-                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status() + ")");
+                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status().wireName() + ")");
                 excluded.add(e);
             }
         }
@@ -81,7 +82,7 @@ public final class Themes {
         FactorRoles roles = FactorRoles.of(live);
         for (FactorVersionRecord v : live) {
             DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
-            if (parsed.ok() && theme.equals(parsed.definition().theme()) && "ready".equals(v.status()) && !roles.input(v.name())) {
+            if (parsed.ok() && theme.equals(parsed.definition().theme()) && v.status() == VersionStatus.READY && !roles.input(v.name())) {
                 members.add(v);
             }
         }

@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.stats.MonthlyBasis;
@@ -127,7 +128,7 @@ public final class TrialLibrary {
         List<TrialStatistics> statistics = new ArrayList<>();
         for (int i = 0; i < versions.size(); i++) {
             FactorVersionRecord v = versions.get(i);
-            boolean ready = "ready".equals(v.status());
+            boolean ready = v.status() == VersionStatus.READY;
             ReturnSeries series = ready ? factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD) : ReturnSeries.empty();
             Trial trial = new Trial(v, definitions.get(i), MonthlyBasis.of(series), null, null, roles.riskFreeOf(v.name()),
                     roles.inputReason(v.name()));
@@ -148,8 +149,8 @@ public final class TrialLibrary {
     }
 
     private static String noteOf(FactorVersionRecord v, TrialStatistics s) {
-        if (!"ready".equals(v.status())) {
-            return "status " + v.status() + ": no series to test";
+        if (v.status() != VersionStatus.READY) {
+            return "status " + v.status().wireName() + ": no series to test";
         }
         if (s.n() < TrialStatistics.MIN_OBSERVATIONS) {
             return "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns";
@@ -166,7 +167,7 @@ public final class TrialLibrary {
         StringBuilder key = new StringBuilder();
         for (FactorVersionRecord v : versions) {
             key.append(v.factorId()).append('.').append(v.version()).append('.').append(v.currentVersion()).append('.')
-                    .append(v.status()).append('.').append(v.dataVersion()).append('.').append(v.retired()).append(';');
+                    .append(v.status().wireName()).append('.').append(v.dataVersion()).append('.').append(v.retired()).append(';');
         }
         return key.toString();
     }

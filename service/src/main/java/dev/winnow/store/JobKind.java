@@ -1,8 +1,5 @@
 package dev.winnow.store;
 
-import java.util.Arrays;
-import java.util.Locale;
-
 /**
  * The one list of job kinds. The wire name (lower case, as {@code panel_upload}) is what the store keeps and what
  * {@code GET /v1/jobs/{id}} answers as {@code kind}; each kind has one parameter record in {@code jobs.JobParams}.
@@ -22,12 +19,17 @@ public enum JobKind {
     COMPACT_STORE;
 
     public String wireName() {
-        return name().toLowerCase(Locale.ROOT);
+        return WireNames.of(this);
+    }
+
+    /** The wire name, so that logs and messages spell the kind as the API does. */
+    @Override
+    public String toString() {
+        return wireName();
     }
 
     /** The kind of a stored wire name; IllegalStateException for one this build does not know. */
     public static JobKind fromWire(String wire) {
-        return Arrays.stream(values()).filter(k -> k.wireName().equals(wire)).findFirst()
-                .orElseThrow(() -> new IllegalStateException("unknown job kind '" + wire + "' in the store"));
+        return WireNames.parse(JobKind.class, wire, "job kind in the store");
     }
 }

@@ -1,8 +1,5 @@
 package dev.winnow.store;
 
-import java.util.Arrays;
-import java.util.Locale;
-
 /** Where a job is: queued, running, or ended (succeeded or failed). The wire name is the lower-case name. */
 public enum JobState {
     QUEUED,
@@ -11,7 +8,13 @@ public enum JobState {
     FAILED;
 
     public String wireName() {
-        return name().toLowerCase(Locale.ROOT);
+        return WireNames.of(this);
+    }
+
+    /** The wire name, so that logs and messages spell the state as the API does. */
+    @Override
+    public String toString() {
+        return wireName();
     }
 
     public boolean finished() {
@@ -19,7 +22,6 @@ public enum JobState {
     }
 
     public static JobState fromWire(String wire) {
-        return Arrays.stream(values()).filter(s -> s.wireName().equals(wire)).findFirst()
-                .orElseThrow(() -> new IllegalStateException("unknown job state '" + wire + "' in the store"));
+        return WireNames.parse(JobState.class, wire, "job state in the store");
     }
 }

@@ -140,7 +140,7 @@ public final class LoadingsTestStore implements AutoCloseable {
 
     /** Defines a factor and stores a build of the given returns (NaN leaves a date out); returns its name. */
     public String factor(String name, List<LocalDate> dates, double[] values) {
-        FactorStore.FactorVersionRecord v = factors.define(name, "{\"test\":\"" + name + "\"}", "series", null).version();
+        FactorStore.FactorVersionRecord v = factors.define(name, "{\"test\":\"" + name + "\"}", dev.winnow.construct.FactorDefinition.Method.EXTERNAL, null).version();
         factors.saveBuild(v.factorId(), v.version(), returns(dates, values, 0), List.of(), null, "{}", false, null);
         return name;
     }
