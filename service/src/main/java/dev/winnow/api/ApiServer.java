@@ -87,7 +87,7 @@ public final class ApiServer {
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         FamilyRoutes families = new FamilyRoutes(d.families());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios(),
-                d.informationCoefficients());
+                d.informationCoefficients(), served);
 
         return Javalin.create(config -> {
             config.jetty.host = host;

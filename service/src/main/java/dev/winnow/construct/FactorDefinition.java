@@ -166,6 +166,33 @@ public record FactorDefinition(
     }
 
     /**
+     * The panel columns besides return and market_cap that building this definition reads: those of the signal and
+     * control recipes, the {@code within} column, the label columns of universe filters and segment, and the
+     * breakpoint subset's column. A panel source may leave every other column out.
+     */
+    public java.util.Set<String> columnsRead() {
+        java.util.Set<String> columns = new java.util.TreeSet<>();
+        for (Recipe recipe : new Recipe[] {signal, control == null ? null : control.signal()}) {
+            if (recipe != null) {
+                columns.addAll(recipe.numberColumns());
+                columns.addAll(recipe.labelColumns());
+            }
+        }
+        if (within != null) {
+            columns.add(within);
+        }
+        Universe u = effectiveUniverse();
+        columns.addAll(u.labelFilters().keySet());
+        if (u.segment() != null) {
+            columns.add(u.segment().column());
+        }
+        if (breakpoints != null) {
+            columns.add(breakpoints.column());
+        }
+        return columns;
+    }
+
+    /**
      * The signal's part of the construction key: the column name for a plain column (so a column spelled as a string
      * or as {@code {"column": ...}} keys alike, as versions built before recipes did), else the canonical recipe.
      */
