@@ -48,7 +48,8 @@ import java.util.Map;
  * times the revision of the panel's first date, which brings all ten up to date.
  *
  * <p>The machine is shared, so only ratios measured in one run mean much; {@code --runs} alternates the two systems.
- * {@code --work} keeps the generated CSV in that folder for the next invocation.
+ * {@code --work} keeps the generated CSV in that folder for the next invocation; {@code --jvm=ARG} (repeatable) passes
+ * an option to the service's JVM, e.g. {@code --jvm=-XX:StartFlightRecording=filename=/tmp/w.jfr}.
  */
 public final class CompareBench {
 
@@ -108,6 +109,9 @@ public final class CompareBench {
     private static final String DUCK_COLUMNS = "{'date': 'DATE', 'security': 'VARCHAR', 'return': 'DOUBLE', "
             + "'market_cap': 'DOUBLE', 'book_to_price': 'DOUBLE', 'momentum_12_1': 'DOUBLE', 'sector': 'VARCHAR'}";
 
+    /** Extra JVM options for the service process ({@code --jvm=...}, e.g. a flight recording to see where time goes). */
+    private static final List<String> SERVICE_JVM_ARGS = new ArrayList<>();
+
     private BenchClient http;
 
     private CompareBench() {
@@ -127,8 +131,10 @@ public final class CompareBench {
                 xmx = arg.substring(6);
             } else if (arg.startsWith("--work=")) {
                 work = Path.of(arg.substring(7));
+            } else if (arg.startsWith("--jvm=")) {
+                SERVICE_JVM_ARGS.add(arg.substring(6));
             } else if (arg.startsWith("--")) {
-                System.err.println("usage: java -jar winnow-bench.jar [securities] [dates] [--runs=N] [--xmx=512m] [--work=DIR]");
+                System.err.println("usage: java -jar winnow-bench.jar [securities] [dates] [--runs=N] [--xmx=512m] [--work=DIR] [--jvm=ARG ...]");
                 System.exit(2);
             } else if (positional++ == 0) {
                 securities = Integer.parseInt(arg);
@@ -263,8 +269,10 @@ public final class CompareBench {
         int port = freePort();
         http = new BenchClient(port, TOKEN, 10);
         Path log = dataDir.resolveSibling("winnow.log");
-        ProcessBuilder pb = new ProcessBuilder(Path.of(System.getProperty("java.home"), "bin", "java").toString(),
-                "-Xmx" + xmx, "-jar", serviceJar().toString(), "serve");
+        List<String> command = new ArrayList<>(List.of(Path.of(System.getProperty("java.home"), "bin", "java").toString(), "-Xmx" + xmx));
+        command.addAll(SERVICE_JVM_ARGS);
+        command.addAll(List.of("-jar", serviceJar().toString(), "serve"));
+        ProcessBuilder pb = new ProcessBuilder(command);
         pb.environment().put("WINNOW_PORT", String.valueOf(port));
         pb.environment().put("WINNOW_DATA_DIR", dataDir.toString());
         pb.environment().put("WINNOW_ADMIN_TOKEN", TOKEN);

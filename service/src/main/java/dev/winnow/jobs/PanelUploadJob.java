@@ -88,17 +88,7 @@ public final class PanelUploadJob implements JobHandler {
             long parseStart = System.nanoTime();
             try (SliceStager stager = panels.stager(panelId, uploadId)) {
                 SecurityDictionary ids = panels.batchedSecurityDictionary(panelId, uploadId);
-                result = parser.parse(upload, ids::idFor, new CrossSectionSink() {
-                            @Override
-                            public void accept(CrossSection cs) throws InterruptedException {
-                                stager.accept(cs);
-                            }
-
-                            @Override
-                            public void discardAccepted() {
-                                stager.discardStaged();
-                            }
-                        },
+                result = parser.parse(upload, ids::idFor, sinkInto(stager),
                         p -> progress.report(new Counters(0.9 * p.fraction(), p.rowsRead(), p.rowsAccepted(), p.rowsRejected())));
                 if (result.accepted()) {
                     long parsed = System.nanoTime();
@@ -146,6 +136,21 @@ public final class PanelUploadJob implements JobHandler {
         report.put("timings_ms", timings);
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
+    }
+
+    /** The parser's sink staging into {@code stager}, which forgets what it staged when the parser starts over. */
+    public static CrossSectionSink sinkInto(SliceStager stager) {
+        return new CrossSectionSink() {
+            @Override
+            public void accept(CrossSection cs) throws InterruptedException {
+                stager.accept(cs);
+            }
+
+            @Override
+            public void discardAccepted() {
+                stager.discardStaged();
+            }
+        };
     }
 
     private static long millis(long nanos) {
