@@ -170,18 +170,33 @@ public final class PanelUploadJob implements JobHandler {
     }
 
     private List<Map<String, Object>> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
+        List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId));
+        List<FactorBuilds.TogetherOutcome> outcomes = new ArrayList<>();
+        if (revise) {
+            // full rebuilds share one pass over the panel; the others resume from their checkpoints
+            outcomes.addAll(builds.rebuildAllFrom(live, earliestRevised));
+        } else {
+            for (FactorVersionRecord v : live) {
+                try {
+                    outcomes.add(new FactorBuilds.TogetherOutcome(v, builds.extend(v), null));
+                } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
+                    outcomes.add(new FactorBuilds.TogetherOutcome(v, null, e.getMessage()));
+                }
+            }
+        }
         List<Map<String, Object>> updated = new ArrayList<>();
-        for (FactorVersionRecord v : FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId))) {
+        for (FactorBuilds.TogetherOutcome o : outcomes) {
+            FactorVersionRecord v = o.version();
             Map<String, Object> entry = new LinkedHashMap<>();
             entry.put("factor", v.name());
             entry.put("version", v.version());
             entry.put("action", revise ? "rebuilt" : "extended");
-            try {
-                entry.putAll(revise ? builds.rebuildFrom(v, earliestRevised) : builds.extend(v));
-            } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
-                factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", e.getMessage())));
+            if (o.error() == null) {
+                entry.putAll(o.report());
+            } else {
+                factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", o.error())));
                 entry.put("action", "failed");
-                entry.put("error", e.getMessage());
+                entry.put("error", o.error());
             }
             updated.add(entry);
         }
