@@ -166,7 +166,7 @@ public final class FactorEvidence {
                 throw new InvalidRequestException("'against' names the factor itself; list the other factors to regress it on.");
             }
             Trial other = live.stream().filter(t -> t.name().equals(name)).findFirst()
-                    .orElseThrow(() -> new InvalidRequestException("'against' names '" + name + "', which is not a live factor; GET /v1/factors lists them."));
+                    .orElseThrow(() -> new InvalidRequestException("'against' names '" + name + "', which is not a live factor", NameKind.FACTOR));
             if (other.excluded()) {
                 throw new InvalidRequestException("'against' names '" + name + "': " + other.basis().excludedReason() + ".");
             }
