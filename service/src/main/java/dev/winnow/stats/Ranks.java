@@ -94,6 +94,25 @@ public final class Ranks {
      * returns how many were kept.
      */
     static int ranksAmongCommon(int[] order, double[] values, int[] position, double[] otherDense, double[] rankDense) {
+        int[] common = new int[position.length];
+        int kept = 0;
+        for (int k = 0; k < position.length; k++) {
+            boolean both = !Double.isNaN(otherDense[position[k]]);
+            common[k] = both ? position[k] : -1;
+            kept += both ? 1 : 0;
+        }
+        ranksAmong(order, values, common, rankDense);
+        return kept;
+    }
+
+    /**
+     * 1-based average ranks, among the positions i with {@code common[i] >= 0}, of values[i], written to
+     * out[common[i]]; {@code order} sorts all of {@code values} ({@link #sortedOrder}). Walking that order, each run
+     * of equal values (by ==) holds {@code kept} common positions after {@code assigned} smaller ones, which all get
+     * assigned + (kept + 1) / 2: the same exact half that {@link #averageRanks} gives the common values ranked on
+     * their own.
+     */
+    static void ranksAmong(int[] order, double[] values, int[] common, double[] out) {
         int assigned = 0;
         int k = 0;
         while (k < order.length) {
@@ -101,19 +120,18 @@ public final class Ranks {
             int end = k;
             int kept = 0;
             while (end < order.length && values[order[end]] == value) {
-                kept += Double.isNaN(otherDense[position[order[end]]]) ? 0 : 1;
+                kept += common[order[end]] >= 0 ? 1 : 0;
                 end++;
             }
             double averageRank = assigned + (kept + 1) / 2.0;
-            for (int j = k; j < end; j++) {
-                int u = position[order[j]];
-                if (!Double.isNaN(otherDense[u])) {
-                    rankDense[u] = averageRank;
+            for (int m = k; m < end; m++) {
+                int u = common[order[m]];
+                if (u >= 0) {
+                    out[u] = averageRank;
                 }
             }
             assigned += kept;
             k = end;
         }
-        return assigned;
     }
 }
