@@ -16,6 +16,7 @@ import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
 import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.StudyThreads;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
@@ -58,6 +59,7 @@ public final class Winnow implements AutoCloseable {
     private final JobQueue queue;
     private final String generatedAdminToken;
     private final DemoLoader demo;
+    private final StudyThreads studyThreads;
 
     private Winnow(Config config) throws IOException {
         requireWritable(config.dataDir());
@@ -110,11 +112,12 @@ public final class Winnow implements AutoCloseable {
         Breadth breadth = new Breadth(panels, factors);
         TrialLibrary library = new TrialLibrary(factors);
         Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
+        this.studyThreads = StudyThreads.perProcessor();
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
-                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
+                new FamaMacBethStudy(panels, factors, studyThreads), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
+                new InformationCoefficients(panels, factors, studyThreads), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
@@ -312,6 +315,7 @@ public final class Winnow implements AutoCloseable {
                 LOG.warn("could not close the change feed: {}", e.getMessage());
             }
         }
+        studyThreads.close();
         database.close();
         metrics.close();
     }

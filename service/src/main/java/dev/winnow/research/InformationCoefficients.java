@@ -30,7 +30,9 @@ import java.util.Map;
  * R+h is past the last date. The raw signal is used, so a low_minus_high factor that works has a negative IC. Each
  * horizon's series is summarised by {@link EstimateSeries} (ic_ir = mean / stdev). The panel is read once, in grid
  * order, keeping the signal samples of the last max(h) grid dates; each date's signal sample and return sample are
- * sorted once ({@link KeyedValues}) and every horizon's Spearman ranks are read off those orders.
+ * sorted once ({@link KeyedValues}) and every horizon's Spearman ranks are read off those orders. The request's
+ * thread reads the panel and evaluates the signal in grid order; each date's return sample and correlations run on
+ * the {@link StudyThreads}, each writing only its own cells, so the answer does not depend on the threads.
  */
 public final class InformationCoefficients {
     public static final int MAX_HORIZONS = 24;
@@ -38,10 +40,12 @@ public final class InformationCoefficients {
 
     private final PanelStore panels;
     private final FactorStore factors;
+    private final StudyThreads threads;
 
-    public InformationCoefficients(PanelStore panels, FactorStore factors) {
+    public InformationCoefficients(PanelStore panels, FactorStore factors, StudyThreads threads) {
         this.panels = panels;
         this.factors = factors;
+        this.threads = threads;
     }
 
     public record Request(FactorVersionRecord version, List<Integer> horizons, Correlations.Method method, int minSecurities,
@@ -66,7 +70,10 @@ public final class InformationCoefficients {
         if (v.panelId() == null) {
             throw new InvalidRequestException("Factor '" + v.name() + "' has no panel.");
         }
-        StorePanelSource panel = new StorePanelSource(panels, v.panelId());
+        // only the columns the signal and the universe read are decoded
+        java.util.Set<String> labels = new java.util.TreeSet<>(def.signal().labelColumns());
+        labels.addAll(def.effectiveUniverse().labelColumns());
+        StorePanelSource panel = new StorePanelSource(panels, v.panelId(), new PanelStore.Columns(def.signal().numberColumns(), labels));
         Map<String, ReturnSeries> signalFactors = new LinkedHashMap<>();
         for (String name : def.signal().factors()) {
             FactorVersionRecord f = factors.catalog().current(name).orElseThrow(() -> new InvalidRequestException(
@@ -96,6 +103,7 @@ public final class InformationCoefficients {
             int last = first + dates.size() - 1;
             Correlations.Method method = request.method();
             Map<Integer, KeyedValues> samples = new HashMap<>();
+            StudyThreads.Pipeline<Void> pairs = threads.pipeline(done -> { });
             int start = Math.max(0, first - (lag - 1));
             int end = Math.min(grid.size() - 1, last + maxH);
             for (int t = start; t <= end; t++) {
@@ -104,16 +112,28 @@ public final class InformationCoefficients {
                 if (r >= first && r <= last) {
                     samples.put(r, signalSample(def, rows, signal.values(t, rows), method));
                 }
-                KeyedValues returns = null;
-                for (int k = 0; k < horizons.size(); k++) {
-                    KeyedValues s = samples.get(t - horizons.get(k));
-                    if (s != null) {
-                        returns = returns != null ? returns : returnSample(rows, method);
-                        ic.get(k)[t - horizons.get(k) - first] = KeyedValues.correlation(s, returns, method, request.minSecurities());
-                    }
+                List<KeyedValues> earlier = new ArrayList<>();
+                for (int h : horizons) {
+                    earlier.add(samples.get(t - h));
                 }
                 samples.remove(t - maxH);
+                if (earlier.stream().allMatch(java.util.Objects::isNull)) {
+                    continue;
+                }
+                // the return sample's sort and the horizons' correlations run on the study threads
+                int cell = t - first; // the cell of horizon h is cell - h
+                pairs.submit(() -> {
+                    KeyedValues returns = returnSample(rows, method);
+                    for (int k = 0; k < earlier.size(); k++) {
+                        if (earlier.get(k) != null) {
+                            ic.get(k)[cell - horizons.get(k)] = KeyedValues.correlation(earlier.get(k), returns, method,
+                                    request.minSecurities());
+                        }
+                    }
+                    return null;
+                });
             }
+            pairs.finish();
         }
         List<EstimateSeries> summary = new ArrayList<>();
         for (double[] row : ic) {

@@ -15,11 +15,13 @@ public final class KeyedValues {
     private final int[] keys;
     private final double[] values;
     private final int[] order;
+    private final boolean distinct;
 
     private KeyedValues(int[] keys, double[] values, int[] order) {
         this.keys = keys;
         this.values = values;
         this.order = order;
+        this.distinct = order != null && Ranks.distinct(order, values);
     }
 
     /**
@@ -79,8 +81,8 @@ public final class KeyedValues {
         double[] a = new double[n];
         double[] b = new double[n];
         if (spearman) {
-            Ranks.ranksAmong(x.order, x.values, commonX, a);
-            Ranks.ranksAmong(y.order, y.values, commonY, b);
+            Ranks.ranksAmong(x.order, x.values, x.distinct, commonX, a);
+            Ranks.ranksAmong(y.order, y.values, y.distinct, commonY, b);
         } else {
             gather(x.values, commonX, a);
             gather(y.values, commonY, b);

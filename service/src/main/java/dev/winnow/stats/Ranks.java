@@ -101,7 +101,7 @@ public final class Ranks {
             common[k] = both ? position[k] : -1;
             kept += both ? 1 : 0;
         }
-        ranksAmong(order, values, common, rankDense);
+        ranksAmong(order, values, distinct(order, values), common, rankDense);
         return kept;
     }
 
@@ -110,9 +110,20 @@ public final class Ranks {
      * out[common[i]]; {@code order} sorts all of {@code values} ({@link #sortedOrder}). Walking that order, each run
      * of equal values (by ==) holds {@code kept} common positions after {@code assigned} smaller ones, which all get
      * assigned + (kept + 1) / 2: the same exact half that {@link #averageRanks} gives the common values ranked on
-     * their own.
+     * their own. {@code distinct} ({@link #distinct}) says there are no ties, and then each rank is a count.
      */
-    static void ranksAmong(int[] order, double[] values, int[] common, double[] out) {
+    static void ranksAmong(int[] order, double[] values, boolean distinct, int[] common, double[] out) {
+        if (distinct) {
+            // no ties: each common value's rank is one more than the common values before it (assigned + (1 + 1) / 2)
+            int assigned = 0;
+            for (int i : order) {
+                int u = common[i];
+                if (u >= 0) {
+                    out[u] = ++assigned;
+                }
+            }
+            return;
+        }
         int assigned = 0;
         int k = 0;
         while (k < order.length) {
@@ -133,5 +144,15 @@ public final class Ranks {
             assigned += kept;
             k = end;
         }
+    }
+
+    /** True when no two values are equal (by ==); {@code order} sorts them, so equal values would be adjacent. */
+    static boolean distinct(int[] order, double[] values) {
+        for (int m = 1; m < order.length; m++) {
+            if (values[order[m]] == values[order[m - 1]]) {
+                return false;
+            }
+        }
+        return true;
     }
 }

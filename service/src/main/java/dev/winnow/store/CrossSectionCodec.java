@@ -63,6 +63,15 @@ public final class CrossSectionCodec {
     }
 
     public static CrossSection decode(LocalDate date, byte[] payload) {
+        return decode(date, payload, null);
+    }
+
+    /**
+     * The slice with only the numeric and label columns {@code columns} names (ids, returns and market caps always),
+     * or every column when {@code columns} is null; the others are skipped in the buffer without being built, and
+     * read as absent (all missing) from the result.
+     */
+    public static CrossSection decode(LocalDate date, byte[] payload, PanelStore.Columns columns) {
         ByteBuffer buf = ByteBuffer.wrap(payload);
         int version = buf.getInt();
         if (version != VERSION) {
@@ -79,13 +88,25 @@ public final class CrossSectionCodec {
         Map<String, double[]> numbers = new LinkedHashMap<>();
         for (int c = 0; c < numberCount; c++) {
             String name = getString(buf);
-            numbers.put(name, getDoubles(buf, n));
+            if (columns == null || columns.numbers().contains(name)) {
+                numbers.put(name, getDoubles(buf, n));
+            } else {
+                buf.position(buf.position() + 8 * n);
+            }
         }
         int labelCount = buf.getInt();
         Map<String, String[]> labels = new LinkedHashMap<>();
         for (int c = 0; c < labelCount; c++) {
             String name = getString(buf);
             int distinct = buf.getInt();
+            if (columns != null && !columns.labels().contains(name)) {
+                for (int d = 0; d < distinct; d++) {
+                    int length = buf.getInt();
+                    buf.position(buf.position() + length);
+                }
+                buf.position(buf.position() + 4 * n);
+                continue;
+            }
             String[] dictionary = new String[distinct];
             for (int d = 0; d < distinct; d++) {
                 dictionary[d] = getString(buf);

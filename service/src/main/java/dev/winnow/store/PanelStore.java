@@ -222,14 +222,30 @@ public final class PanelStore {
                 .bind("p", panelId).mapTo(LocalDate.class).list());
     }
 
+    /**
+     * The columns a reader needs besides the ids, returns and market caps every slice holds: a study that reads two
+     * columns of a wide panel decodes only those ({@link CrossSectionCodec#decode(LocalDate, byte[], Columns)}).
+     */
+    public record Columns(java.util.Set<String> numbers, java.util.Set<String> labels) {
+        public Columns {
+            numbers = java.util.Set.copyOf(numbers);
+            labels = java.util.Set.copyOf(labels);
+        }
+    }
+
     /** The visible cross-section at a date, or an empty one when the panel has no rows there. */
     public CrossSection slice(long panelId, LocalDate date) {
+        return slice(panelId, date, null);
+    }
+
+    /** The same with only the given columns decoded (every column when {@code columns} is null). */
+    public CrossSection slice(long panelId, LocalDate date, Columns columns) {
         return jdbi.withHandle(h -> h.createQuery("SELECT p.payload FROM slice_payloads p JOIN uploads u ON u.id = p.upload_id "
                         + "AND u.state = 'committed' WHERE p.panel_id = :p AND p.slice_date = :d")
                 .bind("p", panelId).bind("d", date)
                 .map((rs, ctx) -> rs.getBytes(1))
                 .findOne()
-                .map(bytes -> CrossSectionCodec.decode(date, bytes))
+                .map(bytes -> CrossSectionCodec.decode(date, bytes, columns))
                 .orElseGet(() -> new CrossSection(date, new int[0], new double[0], new double[0], Map.of(), Map.of())));
     }
 }

@@ -25,9 +25,17 @@ public final class StorePanelSource implements PanelSource {
         }
     };
 
+    private final PanelStore.Columns columns;
+
     public StorePanelSource(PanelStore panels, long panelId) {
+        this(panels, panelId, null);
+    }
+
+    /** A source whose cross-sections hold only the given columns (besides ids, returns and caps); null: all. */
+    public StorePanelSource(PanelStore panels, long panelId, PanelStore.Columns columns) {
         this.panels = panels;
         this.panelId = panelId;
+        this.columns = columns;
         this.dates = List.copyOf(panels.dates(panelId));
     }
 
@@ -38,6 +46,6 @@ public final class StorePanelSource implements PanelSource {
 
     @Override
     public CrossSection crossSection(int index) {
-        return recent.computeIfAbsent(index, i -> panels.slice(panelId, dates.get(i)));
+        return recent.computeIfAbsent(index, i -> panels.slice(panelId, dates.get(i), columns));
     }
 }
