@@ -176,7 +176,7 @@ async function showLibrary() {
     const cell = (value) => el('td', { class: 'num', title: missing }, value);
     body.append(el('tr', { 'data-factor': f.name },
       el('th', { scope: 'row' }, el('a', { href: '#factor/' + encodeURIComponent(f.name), class: 'factor-link' }, f.name)),
-      el('td', {}, (f.definition && f.definition.theme) || '\u2014'),
+      el('td', {}, f.role === 'input' ? 'input (no trial)' : (f.definition && f.definition.theme) || '\u2014'),
       spark,
       cell(row ? fixed(row.nw_t_stat, 2) : '\u2014'),
       verdicts,

@@ -76,26 +76,27 @@ public final class CompareBench {
      * linear interpolation); a value at a breakpoint goes to the lower bucket; the portfolio formed at date t holds
      * its members at t's market caps and earns at the next grid date the cap-weighted return of those members that
      * have one there; the spread is the top quintile minus the bottom one, and a date where either leg is empty has
-     * no observation.
+     * no observation. The legs are materialised before the join with the next date's returns: left to itself, the
+     * planner joined on security alone first (hundreds of millions of intermediate rows).
      */
     static final String SORT_SQL = """
-            WITH eligible AS (
+            WITH grid AS (
+                SELECT date, lead(date) OVER (ORDER BY date) AS next_date FROM (SELECT DISTINCT date FROM p)),
+            eligible AS (
                 SELECT date, security, momentum_12_1 AS signal, market_cap AS weight FROM p
                 WHERE momentum_12_1 IS NOT NULL AND market_cap > 0),
             breakpoints AS (
                 SELECT date, quantile_cont(signal, [0.2, 0.4, 0.6, 0.8]) AS q FROM eligible GROUP BY date),
-            legs AS (
-                SELECT e.date, e.security, e.weight,
+            legs AS MATERIALIZED (
+                SELECT g.next_date, e.security, e.weight,
                        CASE WHEN e.signal <= b.q[1] THEN 'low' WHEN e.signal > b.q[4] THEN 'high' END AS leg
-                FROM eligible e JOIN breakpoints b ON b.date = e.date),
-            grid AS (
-                SELECT date, lead(date) OVER (ORDER BY date) AS next_date FROM (SELECT DISTINCT date FROM p)),
+                FROM eligible e JOIN breakpoints b ON b.date = e.date JOIN grid g ON g.date = e.date
+                WHERE e.signal <= b.q[1] OR e.signal > b.q[4]),
             earned AS (
-                SELECT g.next_date AS date, l.leg, sum(l.weight * r.return) / sum(l.weight) AS leg_return
-                FROM legs l JOIN grid g ON g.date = l.date
-                JOIN p r ON r.date = g.next_date AND r.security = l.security
-                WHERE l.leg IS NOT NULL AND r.return IS NOT NULL
-                GROUP BY g.next_date, l.leg)
+                SELECT l.next_date AS date, l.leg, sum(l.weight * r.return) / sum(l.weight) AS leg_return
+                FROM legs l JOIN p r ON r.date = l.next_date AND r.security = l.security
+                WHERE r.return IS NOT NULL
+                GROUP BY l.next_date, l.leg)
             SELECT date, max(leg_return) FILTER (WHERE leg = 'high') - max(leg_return) FILTER (WHERE leg = 'low') AS spread
             FROM earned GROUP BY date HAVING count(*) = 2 ORDER BY date
             """;
@@ -156,15 +157,18 @@ public final class CompareBench {
                 System.out.printf(Locale.ROOT, "%n=== run %d of %d ===%n", r, runs);
                 Path runDir = Files.createDirectories(dir.resolve("run" + r));
                 DuckResult duck = duckDb(csv, runDir.resolve("duck.db"));
-                System.out.printf(Locale.ROOT, "DuckDB %s: load %.2f s + sort %.2f s = %.2f s; database file %.0f MB; %d dates in the series%n",
-                        duck.version, duck.loadSeconds, duck.sortSeconds, duck.loadSeconds + duck.sortSeconds, duck.fileBytes / 1e6,
-                        duck.series.size());
+                System.out.printf(Locale.ROOT, "DuckDB %s: load %.2f s + sort %.2f s = %.2f s (%.1f CPU s); database file %.0f MB; %d dates in the series%n",
+                        duck.version, duck.loadSeconds, duck.sortSeconds, duck.loadSeconds + duck.sortSeconds, duck.cpuSeconds,
+                        duck.fileBytes / 1e6, duck.series.size());
                 WinnowResult winnow = winnow(csv, runDir.resolve("winnow"), xmx, rows);
                 double duckSeconds = duck.loadSeconds + duck.sortSeconds;
                 System.out.printf(Locale.ROOT, "Winnow: upload answered 202 after %.2f s, ingest job %.2f s, build job %.2f s; "
                                 + "upload to built %.2f s (%.2f M rows/s)%n",
                         winnow.acceptedSeconds, winnow.ingestJobSeconds, winnow.buildJobSeconds, winnow.totalSeconds,
                         rows / winnow.totalSeconds / 1e6);
+                System.out.printf(Locale.ROOT, "  CPU: service %.1f s, upload client %.1f s; CPU ratio service/DuckDB = %.2f "
+                                + "(a steadier comparison than wall time on a shared machine)%n",
+                        winnow.serviceCpuSeconds, winnow.clientCpuSeconds, winnow.serviceCpuSeconds / duck.cpuSeconds);
                 if (!winnow.ingestTimings.isEmpty()) {
                     System.out.println("  ingest job phases (ms): " + winnow.ingestTimings);
                 }
@@ -186,7 +190,25 @@ public final class CompareBench {
         }
     }
 
-    private record DuckResult(String version, double loadSeconds, double sortSeconds, long fileBytes, Map<LocalDate, Double> series) {
+    private record DuckResult(String version, double loadSeconds, double sortSeconds, double cpuSeconds, long fileBytes,
+                              Map<LocalDate, Double> series) {
+    }
+
+    /** CPU seconds this process has used (all threads), or NaN where the JVM does not say. */
+    private static double ownCpuSeconds() {
+        java.lang.management.OperatingSystemMXBean os = java.lang.management.ManagementFactory.getOperatingSystemMXBean();
+        return os instanceof com.sun.management.OperatingSystemMXBean sun ? sun.getProcessCpuTime() / 1e9 : Double.NaN;
+    }
+
+    /** CPU seconds (user + system) a process has used, from /proc (Linux; NaN elsewhere). */
+    private static double processCpuSeconds(long pid) {
+        try {
+            String stat = Files.readString(Path.of("/proc/" + pid + "/stat"));
+            String[] fields = stat.substring(stat.lastIndexOf(')') + 2).split(" ");
+            return (Long.parseLong(fields[11]) + Long.parseLong(fields[12])) / 100.0; // USER_HZ is 100 on Linux
+        } catch (IOException | RuntimeException e) {
+            return Double.NaN;
+        }
     }
 
     private static DuckResult duckDb(Path csv, Path file) throws SQLException, IOException {
@@ -194,12 +216,14 @@ public final class CompareBench {
         String version;
         double load;
         double sort;
+        double cpu;
         try (Connection c = DriverManager.getConnection("jdbc:duckdb:" + file.toAbsolutePath());
              Statement s = c.createStatement()) {
             try (ResultSet v = s.executeQuery("SELECT version()")) {
                 v.next();
                 version = v.getString(1);
             }
+            double cpu0 = ownCpuSeconds();
             long t0 = System.nanoTime();
             s.execute("CREATE TABLE p AS SELECT * FROM read_csv('" + csv.toAbsolutePath().toString().replace("'", "''")
                     + "', header = true, columns = " + DUCK_COLUMNS + ")");
@@ -212,8 +236,9 @@ public final class CompareBench {
             long t2 = System.nanoTime();
             load = (t1 - t0) / 1e9;
             sort = (t2 - t1) / 1e9;
+            cpu = ownCpuSeconds() - cpu0;
         }
-        return new DuckResult(version, load, sort, directorySize(file.getParent(), file.getFileName().toString()), series);
+        return new DuckResult(version, load, sort, cpu, directorySize(file.getParent(), file.getFileName().toString()), series);
     }
 
     private static final class WinnowResult {
@@ -226,6 +251,8 @@ public final class CompareBench {
         long storeBytesClosed;
         long peakRssKb;
         double revisionJobSeconds;
+        double serviceCpuSeconds;
+        double clientCpuSeconds;
         String revisionNote = "";
         Map<LocalDate, Double> series = new LinkedHashMap<>();
     }
@@ -245,6 +272,8 @@ public final class CompareBench {
         Process process = pb.start();
         try {
             awaitHealthy(process, log);
+            double serviceCpu0 = processCpuSeconds(process.pid());
+            double clientCpu0 = ownCpuSeconds();
             long t0 = System.nanoTime();
             String uploadJob = http.upload("/v1/panels/" + PANEL + "/uploads", csv);
             result.acceptedSeconds = (System.nanoTime() - t0) / 1e9;
@@ -252,6 +281,8 @@ public final class CompareBench {
             String buildJob = http.define("mom", SORT_DEFINITION);
             JsonNode build = http.awaitJob(buildJob);
             result.totalSeconds = (System.nanoTime() - t0) / 1e9;
+            result.serviceCpuSeconds = processCpuSeconds(process.pid()) - serviceCpu0;
+            result.clientCpuSeconds = ownCpuSeconds() - clientCpu0;
             result.ingestJobSeconds = BenchClient.jobSeconds(ingest);
             result.buildJobSeconds = BenchClient.jobSeconds(build);
             if (ingest.path("report").has("timings_ms")) {

@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.construct.FactorDefinition;
 import dev.winnow.research.StoredCosts;
 import dev.winnow.stats.CorrelationMatrix;
 import dev.winnow.stats.Correlations;
@@ -189,7 +190,7 @@ final class AnalyticsRoutes {
     /** Average annual turnover and break-even cost of the requested stretch, as {@link TradingCosts#of} defines them. */
     private Map<String, Object> costFields(FactorVersionRecord v, SeriesRequest.Resolved resolved) {
         Map<String, Object> out = new LinkedHashMap<>();
-        if (v.method().equals("external")) {
+        if (v.method() == FactorDefinition.Method.EXTERNAL) {
             return out;
         }
         ReturnSeries range = resolved.series();

@@ -1,7 +1,7 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.ConflictException;
@@ -13,7 +13,9 @@ import dev.winnow.research.FactorHoldings;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
+import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.InvalidRequestException;
+import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
 import dev.winnow.research.Themes;
@@ -47,7 +49,8 @@ public final class ApiServer {
                                Breadth breadth, Themes themes, LoadingsService loadings, SignalPreview signals,
                                FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
                                InformationCoefficients informationCoefficients,
-                               Health.Check health, FactorHoldings holdings, Families families) {
+                               Health.Check health, FactorHoldings holdings, Families families,
+                               FactorLibrary factorLibrary, PortfolioRiskStudy portfolioRisk) {
     }
 
     private ApiServer() {
@@ -76,7 +79,7 @@ public final class ApiServer {
         metrics.watch(served);
         FactorRoutes factors = new FactorRoutes(d.factors(), d.definitions(), d.queue(), d.spool(), served);
         AnalyticsRoutes analytics = new AnalyticsRoutes(d.factors(), served);
-        LibraryRoutes library = new LibraryRoutes(d.factors(), d.panels(), served, d.loadings());
+        LibraryRoutes library = new LibraryRoutes(d.factorLibrary(), d.portfolioRisk(), d.panels(), served);
         ChartRoutes charts = new ChartRoutes(d.factors(), d.portfolios(), d.informationCoefficients());
         PageRoutes page = new PageRoutes();
         EvidenceRoutes evidence = new EvidenceRoutes(d.factors(), d.library(), d.evidence(), d.breadth(), d.themes());
@@ -120,7 +123,7 @@ public final class ApiServer {
             config.routes.get("/", page::page);
             config.routes.get("/ui/{file}", page::asset);
 
-            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(JobKinds.COMPACT_STORE, Map.of())));
+            config.routes.post("/v1/admin/compact", ctx -> Accepted.job(ctx, d.queue().enqueue(new JobParams.CompactStore())));
             config.routes.post("/v1/tokens", tokens::create);
             config.routes.get("/v1/tokens", tokens::list);
             config.routes.delete("/v1/tokens/{name}", tokens::revoke);

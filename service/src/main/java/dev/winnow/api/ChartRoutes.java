@@ -217,7 +217,7 @@ final class ChartRoutes {
         FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), false);
         if (table.dates().isEmpty()) {
             throw ApiProblem.badRequest("Factor '" + v.name() + "' has no portfolio returns"
-                    + (window.from() != null || window.to() != null ? " between the requested dates" : " yet (status " + v.status() + ")")
+                    + (window.from() != null || window.to() != null ? " between the requested dates" : " yet (status " + v.status().wireName() + ")")
                     + "; widen 'from'/'to' or wait for its build.");
         }
         List<BarChart.Bar> bars = new ArrayList<>();

@@ -35,13 +35,22 @@ final class EvidenceRoutes {
         this.themes = themes;
     }
 
-    /** {@code risk_free=include} (default: every version is a trial) or {@code exclude} (risk-free rates are not). */
-    private static boolean leaveOutRiskFree(Context ctx) {
-        return Requests.choiceParam(ctx, "risk_free", List.of("include", "exclude"), "include").equals("exclude");
+    /**
+     * {@code risk_free=exclude} is kept for one release as an alias of what every answer now does: inputs (risk-free
+     * rates among them) are never trials. {@code include}, which counted risk-free rates as trials, is gone.
+     */
+    private static void checkRiskFreeAlias(Context ctx) {
+        String value = Requests.choiceParam(ctx, "risk_free", List.of("include", "exclude"), "exclude");
+        if (value.equals("include")) {
+            throw ApiProblem.badRequest("Query parameter 'risk_free=include' is gone: inputs (a factor declared with \"role\": \"input\","
+                    + " or one without a role that a live definition names as its risk_free) are never trials. To count a series as a trial,"
+                    + " declare it with \"role\": \"factor\"; 'risk_free=exclude' still works and changes nothing.");
+        }
     }
 
     void table(Context ctx) {
-        Snapshot snapshot = library.snapshot(leaveOutRiskFree(ctx));
+        checkRiskFreeAlias(ctx);
+        Snapshot snapshot = library.snapshot();
         List<Map<String, Object>> rows = new ArrayList<>();
         List<Map<String, Object>> excluded = new ArrayList<>();
         for (Trial trial : snapshot.trials()) {
@@ -66,7 +75,8 @@ final class EvidenceRoutes {
         String segment = ctx.queryParam("segment");
         segment = segment == null || segment.isBlank() ? null : segment.trim();
         List<String> against = Requests.listParam(ctx, "against");
-        Snapshot snapshot = library.snapshot(leaveOutRiskFree(ctx));
+        checkRiskFreeAlias(ctx);
+        Snapshot snapshot = library.snapshot();
         // versions are never deleted, so the snapshot taken after the lookup holds this one
         Trial trial = snapshot.find(v).orElseThrow();
         List<Trial> regressors = FactorEvidence.against(trial, snapshot, against);

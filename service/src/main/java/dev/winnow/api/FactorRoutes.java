@@ -1,10 +1,13 @@
 package dev.winnow.api;
 
+import dev.winnow.construct.FactorDefinition;
+import dev.winnow.construct.DefinitionJson;
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.ConflictException;
 import dev.winnow.research.FactorDefinitions;
+import dev.winnow.research.FactorRoles;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -47,7 +50,7 @@ final class FactorRoutes {
             throw new ApiProblem(400, "Invalid factor definition", e.getMessage(), errors);
         }
         if (defined.buildJob() == null) {
-            Json.respond(ctx, defined.created() ? 201 : 200, view(defined.version()));
+            Json.respond(ctx, defined.created() ? 201 : 200, view(defined.version(), roles()));
             return;
         }
         ctx.header("Location", "/v1/jobs/" + defined.buildJob());
@@ -59,28 +62,26 @@ final class FactorRoutes {
         FactorVersionRecord v = factors.current(name)
                 .orElseThrow(() -> ApiProblem.notFound("No factor '" + name + "'; define it first with PUT /v1/factors/" + name
                         + " {\"method\":\"external\"}."));
-        if (!v.method().equals("external")) {
-            throw new ConflictException("Factor '" + name + "' is built from panel data (method " + v.method()
+        if (v.method() != FactorDefinition.Method.EXTERNAL) {
+            throw new ConflictException("Factor '" + name + "' is built from panel data (method " + DefinitionJson.wire(v.method())
                     + "); only method external takes uploaded returns.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
-        Map<String, Object> target = new LinkedHashMap<>();
-        target.put("factor", name);
-        target.put("version", v.version());
-        Accepted.job(ctx, queue.enqueue(JobKinds.SERIES_UPLOAD, received.jobParams(target)));
+        Accepted.job(ctx, queue.enqueue(new JobParams.SeriesUpload(name, v.version(), received.mode(), received.spoolPath(), received.gzip())));
     }
 
     void list(Context ctx) {
         boolean includeRetired = Requests.choiceParam(ctx, "include", List.of("retired"), "").equals("retired");
         List<Map<String, Object>> out = new ArrayList<>();
+        FactorRoles roles = roles();
         for (FactorVersionRecord v : factors.catalog().listCurrent(includeRetired)) {
-            out.add(view(v));
+            out.add(view(v, roles));
         }
         Json.respond(ctx, Map.of("factors", out));
     }
 
     void get(Context ctx) {
-        Json.respond(ctx, view(FactorLookup.version(ctx, factors, ctx.pathParam("factor"))));
+        Json.respond(ctx, view(FactorLookup.version(ctx, factors, ctx.pathParam("factor")), roles()));
     }
 
     void retire(Context ctx) {
@@ -128,14 +129,20 @@ final class FactorRoutes {
         Json.respond(ctx, out);
     }
 
-    Map<String, Object> view(FactorVersionRecord v) {
+    /** The roles of the current definitions, retired factors included (their declared role still holds). */
+    private FactorRoles roles() {
+        return FactorRoles.of(factors.catalog().listCurrent(true));
+    }
+
+    Map<String, Object> view(FactorVersionRecord v, FactorRoles roles) {
         SeriesSummary s = factors.seriesSummary(v.factorId(), v.version());
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("name", v.name());
         out.put("version", v.version());
         out.put("current_version", v.currentVersion());
         out.put("definition", Json.MAPPER.valueToTree(JsonText.readMap(v.definitionJson())));
-        out.put("status", v.status());
+        out.put("role", DefinitionJson.wire(roles.role(v.name())));
+        out.put("status", v.status().wireName());
         out.put("retired", v.retired());
         out.put("first_date", s.firstDate());
         out.put("last_date", s.lastDate());

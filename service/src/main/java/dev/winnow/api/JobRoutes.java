@@ -32,8 +32,8 @@ final class JobRoutes {
     static Map<String, Object> view(JobRecord job) {
         Map<String, Object> out = new LinkedHashMap<>();
         out.put("id", String.valueOf(job.id()));
-        out.put("kind", job.kind());
-        out.put("state", job.state());
+        out.put("kind", job.kind().wireName());
+        out.put("state", job.state().wireName());
         out.put("progress", job.progress());
         out.put("rows_read", job.rowsRead());
         out.put("rows_accepted", job.rowsAccepted());

@@ -1,7 +1,7 @@
 package dev.winnow.api;
 
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
@@ -31,7 +31,7 @@ final class PanelRoutes {
             throw ApiProblem.notFound("Panel '" + panel + "' has no data to revise; upload it first without mode=revise.");
         }
         Uploads.Received received = Uploads.receive(ctx, spool);
-        Accepted.job(ctx, queue.enqueue(JobKinds.PANEL_UPLOAD, received.jobParams(Map.of("panel", panel))));
+        Accepted.job(ctx, queue.enqueue(new JobParams.PanelUpload(panel, received.mode(), received.spoolPath(), received.gzip())));
     }
 
     void list(Context ctx) {

@@ -1,6 +1,7 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
@@ -18,10 +19,11 @@ import java.util.Set;
  * weights are holdings minus benchmark, security by security, a security in one list only counting 0 in the other;
  * {@code securities} lists them holdings first, then benchmark-only securities, each in request order.
  */
-record RiskRequest(PanelRecord panel, LocalDate date, List<String> securities, double[] activeWeights,
-                   dev.winnow.research.LoadingsSettings regression, CovarianceSettings covariance) {
+final class RiskRequest {
+    private RiskRequest() {
+    }
 
-    static RiskRequest of(Context ctx, PanelStore panels) {
+    static PortfolioRiskStudy.Query of(Context ctx, PanelStore panels) {
         JsonNode body = Json.readObject(ctx);
         Requests.allowOnly(body, Set.of("panel", "date", "factors", "holdings", "benchmark", "window", "min_obs", "covariance"));
         PanelRecord panel = PanelLookup.visible(panels, Requests.requiredText(body, "panel"));
@@ -41,7 +43,7 @@ record RiskRequest(PanelRecord panel, LocalDate date, List<String> securities, d
         for (int i = 0; i < weights.length; i++) {
             weights[i] = active.get(securities.get(i));
         }
-        return new RiskRequest(panel, date, securities, weights, LoadingsSettingsForms.ofBody(body),
-                CovarianceSettings.ofBody(body.get("covariance"), date));
+        return new PortfolioRiskStudy.Query(panel, date, securities, weights, LoadingsSettingsForms.ofBody(body),
+                CovarianceForms.ofBody(body.get("covariance"), date));
     }
 }

@@ -81,7 +81,7 @@ record SeriesRequest(FactorVersionRecord version, Leg leg, LocalDate from, Local
         Resolved resolved = load(factors);
         if (resolved.series().size() == 0) {
             throw ApiProblem.badRequest("Factor '" + version.name() + "' has no observations"
-                    + (from != null || to != null ? " between the requested dates" : " yet (status " + version.status() + ")")
+                    + (from != null || to != null ? " between the requested dates" : " yet (status " + version.status().wireName() + ")")
                     + "; widen 'from'/'to' or wait for its build.");
         }
         return resolved;

@@ -1,5 +1,6 @@
 package dev.winnow.api;
 
+import dev.winnow.ingest.UploadMode;
 import dev.winnow.ingest.UploadSpool;
 import io.javalin.http.Context;
 
@@ -14,15 +15,8 @@ final class Uploads {
     private Uploads() {
     }
 
-    record Received(String spoolPath, boolean gzip, String mode) {
-        /** The upload job's parameters: what the upload is for, then mode, spool file and compression. */
-        Map<String, Object> jobParams(Map<String, Object> target) {
-            Map<String, Object> params = new LinkedHashMap<>(target);
-            params.put("mode", mode);
-            params.put("file", spoolPath);
-            params.put("gzip", gzip);
-            return params;
-        }
+    /** A spooled upload body: where it is, whether it is gzip-compressed, and how to apply it. */
+    record Received(String spoolPath, boolean gzip, UploadMode mode) {
     }
 
     static Received receive(Context ctx, UploadSpool spool) {
@@ -50,6 +44,6 @@ final class Uploads {
             spool.delete(spooled.relativePath());
             throw ApiProblem.badRequest("The upload body is empty; send a CSV with a header row and at least one data row.");
         }
-        return new Received(spooled.relativePath(), gzip, mode);
+        return new Received(spooled.relativePath(), gzip, UploadMode.fromWire(mode));
     }
 }

@@ -2,11 +2,13 @@ package dev.winnow.app;
 
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
+import dev.winnow.ingest.UploadMode;
 import dev.winnow.ingest.UploadSpool;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.store.FactorStore;
+import dev.winnow.store.JobState;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
 import dev.winnow.store.PanelStore;
@@ -55,12 +57,13 @@ final class DemoLoader {
             if (entry.has("series_file")) {
                 String name = entry.path("name").asText();
                 definitions.define(name, entry.path("definition"));
-                pending.add(enqueueUpload(JobKinds.SERIES_UPLOAD, entry.path("series_file").asText(), false,
-                        Map.of("factor", name, "version", factors.current(name).orElseThrow().version())));
+                int version = factors.current(name).orElseThrow().version();
+                String file = spool(entry.path("series_file").asText());
+                pending.add(queue.enqueue(new JobParams.SeriesUpload(name, version, UploadMode.APPEND, file, false)));
                 names.add(name);
             }
         }
-        long panelJob = enqueueUpload(JobKinds.PANEL_UPLOAD, PANEL_FILE, true, Map.of("panel", "demo-market"));
+        long panelJob = queue.enqueue(new JobParams.PanelUpload("demo-market", UploadMode.APPEND, spool(PANEL_FILE), true));
         pending.add(panelJob);
         awaitAll(pending);
         pending.clear();
@@ -78,16 +81,11 @@ final class DemoLoader {
         return names;
     }
 
-    private long enqueueUpload(String kind, String file, boolean gzip, Map<String, Object> target) throws IOException {
-        UploadSpool.Spooled spooled;
+    /** Spools a packaged file as an upload body; returns its path relative to the spool. */
+    private String spool(String file) throws IOException {
         try (InputStream in = resource(file)) {
-            spooled = spool.write(in);
+            return spool.write(in).relativePath();
         }
-        Map<String, Object> params = new LinkedHashMap<>(target);
-        params.put("mode", "append");
-        params.put("file", spooled.relativePath());
-        params.put("gzip", gzip);
-        return queue.enqueue(kind, params);
     }
 
     private void awaitAll(List<Long> jobIds) throws InterruptedException {
@@ -95,10 +93,10 @@ final class DemoLoader {
         for (long id : jobIds) {
             while (true) {
                 JobRecord job = jobs.find(id).orElseThrow();
-                if (job.state().equals("failed")) {
-                    throw new IllegalStateException("demo job " + id + " (" + job.kind() + ") failed: " + job.errors());
+                if (job.state() == JobState.FAILED) {
+                    throw new IllegalStateException("demo job " + id + " (" + job.kind().wireName() + ") failed: " + job.errors());
                 }
-                if (job.state().equals("succeeded")) {
+                if (job.state() == JobState.SUCCEEDED) {
                     break;
                 }
                 if (System.nanoTime() > deadline) {

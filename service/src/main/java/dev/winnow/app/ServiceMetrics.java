@@ -1,6 +1,6 @@
 package dev.winnow.app;
 
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.store.JobKind;
 import dev.winnow.jobs.JobOutcome;
 import dev.winnow.jobs.JobWorker;
 import dev.winnow.store.FactorStore;
@@ -73,12 +73,12 @@ public final class ServiceMetrics implements AutoCloseable {
     public JobWorker.JobObserver jobObserver() {
         return (JobRecord job, JobOutcome outcome, long nanos) -> {
             String state = outcome.succeeded() ? "succeeded" : "failed";
-            Timer.builder("winnow.jobs").tag("kind", job.kind()).tag("state", state)
+            Timer.builder("winnow.jobs").tag("kind", job.kind().wireName()).tag("state", state)
                     .description("Jobs finished by this instance, by kind and final state")
                     .publishPercentileHistogram().minimumExpectedValue(Duration.ofMillis(1)).maximumExpectedValue(Duration.ofHours(2))
                     .register(registry).record(nanos, TimeUnit.NANOSECONDS);
-            if (outcome.succeeded() && (job.kind().equals(JobKinds.PANEL_UPLOAD) || job.kind().equals(JobKinds.SERIES_UPLOAD))) {
-                Counter.builder("winnow.rows.ingested").tag("kind", job.kind()).description("Rows accepted by uploads")
+            if (outcome.succeeded() && (job.kind() == JobKind.PANEL_UPLOAD || job.kind() == JobKind.SERIES_UPLOAD)) {
+                Counter.builder("winnow.rows.ingested").tag("kind", job.kind().wireName()).description("Rows accepted by uploads")
                         .register(registry).increment(outcome.counters().rowsAccepted());
             }
         };

@@ -1,12 +1,15 @@
 package dev.winnow.app;
 
+import dev.winnow.store.VersionStatus;
+import dev.winnow.construct.FactorDefinition;
 import dev.winnow.api.ApiServer;
 import dev.winnow.api.Authenticator;
 import dev.winnow.api.Health;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.store.ChangeFeed;
 import dev.winnow.jobs.JobHandler;
-import dev.winnow.jobs.JobKinds;
+import dev.winnow.jobs.JobParams;
+import dev.winnow.store.JobKind;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.jobs.JobResources;
 import dev.winnow.jobs.JobWorker;
@@ -14,7 +17,9 @@ import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
 import dev.winnow.research.FactorEvidence;
+import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.FactorPortfolios;
+import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.FamaMacBethStudy;
 import dev.winnow.research.StudyThreads;
 import dev.winnow.research.InformationCoefficients;
@@ -102,7 +107,7 @@ public final class Winnow implements AutoCloseable {
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
         FactorBuilds builds = new FactorBuilds(panels, factors);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
-        Map<String, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
+        Map<JobKind, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         Config.Instance instance = config.instance();
         this.worker = instance.role().runsJobs()
                 ? new JobWorker(jobs, handlers, new JobWorker.Settings(workerName(), instance.workerThreads(), instance.leaseSeconds()),
@@ -113,11 +118,15 @@ public final class Winnow implements AutoCloseable {
         TrialLibrary library = new TrialLibrary(factors);
         Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
         this.studyThreads = StudyThreads.perProcessor();
+        SeriesNames seriesNames = new SeriesNames(factors);
+        LoadingsService loadingsService = new LoadingsService(panels, factors, loadings, queue);
+        FactorLibrary factorLibrary = new FactorLibrary(factors, seriesNames);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
-                new LoadingsService(panels, factors, loadings, queue), new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors, studyThreads), new ModelTests(new SeriesNames(factors)), new FactorPortfolios(factors),
-                new InformationCoefficients(panels, factors, studyThreads), () -> health(jobs, spool), new FactorHoldings(builds, panels), families), config.bind(), config.port(),
+                loadingsService, new SignalPreview(panels, factors),
+                new FamaMacBethStudy(panels, factors, studyThreads), new ModelTests(seriesNames), new FactorPortfolios(factors),
+                new InformationCoefficients(panels, factors, studyThreads), () -> health(jobs, spool), new FactorHoldings(builds, panels), families,
+                factorLibrary, new PortfolioRiskStudy(loadingsService, factorLibrary)), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
 
@@ -213,9 +222,9 @@ public final class Winnow implements AutoCloseable {
      */
     private static int removeOrphanedSpoolFiles(JobStore jobs, UploadSpool spool) throws IOException {
         java.util.Set<String> referenced = new java.util.HashSet<>();
-        for (String kind : java.util.List.of(JobKinds.PANEL_UPLOAD, JobKinds.SERIES_UPLOAD)) {
+        for (JobKind kind : java.util.List.of(JobKind.PANEL_UPLOAD, JobKind.SERIES_UPLOAD)) {
             for (JobStore.JobRecord job : jobs.unfinished(kind)) {
-                referenced.add(String.valueOf(JsonText.readMap(job.params()).get("file")));
+                referenced.add(((JobParams.Upload) JobParams.of(job)).file());
             }
         }
         return spool.removeUnreferenced(referenced);
@@ -227,20 +236,18 @@ public final class Winnow implements AutoCloseable {
      */
     private static int requeueOrphanedBuilds(FactorStore factors, JobStore jobs, JobQueue queue) {
         java.util.Set<String> queued = new java.util.HashSet<>();
-        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FACTOR_BUILD)) {
-            Map<String, Object> params = JsonText.readMap(job.params());
-            queued.add(params.get("factor") + "#" + params.get("version"));
+        for (JobStore.JobRecord job : jobs.unfinished(JobKind.FACTOR_BUILD)) {
+            JobParams.FactorBuild params = JobParams.of(job, JobParams.FactorBuild.class);
+            queued.add(params.factor() + "#" + params.version());
         }
-        for (JobStore.JobRecord job : jobs.unfinished(JobKinds.FAMILY_BUILD)) {
-            @SuppressWarnings("unchecked")
-            java.util.List<Map<String, Object>> versions = (java.util.List<Map<String, Object>>) JsonText.readMap(job.params()).get("versions");
-            for (Map<String, Object> v : versions) {
-                queued.add(v.get("factor") + "#" + v.get("version"));
+        for (JobStore.JobRecord job : jobs.unfinished(JobKind.FAMILY_BUILD)) {
+            for (JobParams.FamilyBuild.Member v : JobParams.of(job, JobParams.FamilyBuild.class).versions()) {
+                queued.add(v.factor() + "#" + v.version());
             }
         }
         int count = 0;
         for (FactorStore.FactorVersionRecord v : factors.allVersions()) {
-            if (v.status().equals("building") && !v.method().equals("external") && !queued.contains(v.name() + "#" + v.version())) {
+            if (v.status() == VersionStatus.BUILDING && v.method() != FactorDefinition.Method.EXTERNAL && !queued.contains(v.name() + "#" + v.version())) {
                 queue.queueFactorBuild(v.name(), v.version());
                 count++;
             }

@@ -8,6 +8,7 @@ import dev.winnow.construct.FactorDefinition.Direction;
 import dev.winnow.construct.FactorDefinition.Method;
 import dev.winnow.construct.FactorDefinition.Output;
 import dev.winnow.construct.FactorDefinition.Rebalance;
+import dev.winnow.construct.FactorDefinition.Role;
 import dev.winnow.construct.FactorDefinition.Weighting;
 
 import java.io.IOException;
@@ -29,7 +30,7 @@ public final class DefinitionJson {
     private static final ObjectMapper MAPPER = new ObjectMapper();
     private static final Set<String> FIELDS = Set.of("panel", "method", "signal", "direction", "buckets", "weighting", "lag",
             "rebalance", "rebalance_month", "output", "risk_free", "universe", "breakpoints", "within", "control", "cost_bps", "theme",
-            "rationale", "found_on");
+            "rationale", "found_on", "role");
 
     private DefinitionJson() {
     }
@@ -74,7 +75,8 @@ public final class DefinitionJson {
                 .costBps(number(node, "cost_bps", problems))
                 .theme(text(node, "theme", problems))
                 .rationale(text(node, "rationale", problems))
-                .foundOn(date(node, "found_on", problems));
+                .foundOn(date(node, "found_on", problems))
+                .role(enumField(node, "role", Role.class, problems));
         if (!problems.isEmpty()) {
             return new Parsed(null, problems);
         }
@@ -125,6 +127,7 @@ public final class DefinitionJson {
         putText(o, "theme", d.theme());
         putText(o, "rationale", d.rationale());
         putText(o, "found_on", d.foundOn() == null ? null : d.foundOn().toString());
+        putText(o, "role", wire(d.role()));
         return o;
     }
 

@@ -27,6 +27,8 @@ import java.util.StringJoiner;
  * @param theme           free text
  * @param rationale       free text
  * @param foundOn         when the idea was found, if known
+ * @param role            FACTOR (a candidate premium) or INPUT (a series other factors and studies read); null when
+ *                        not declared, see {@link #declaredRole()}
  */
 public record FactorDefinition(
         Method method,
@@ -47,7 +49,8 @@ public record FactorDefinition(
         Double costBps,
         String theme,
         String rationale,
-        LocalDate foundOn) {
+        LocalDate foundOn,
+        Role role) {
 
     public enum Method {
         SORT,
@@ -83,6 +86,15 @@ public record FactorDefinition(
         SIZE
     }
 
+    /**
+     * What the series is for. A FACTOR is a candidate premium: a trial of the evidence table. An INPUT (a risk-free
+     * rate, a benchmark, a macro series used only as a regressor) is served and usable everywhere but is no trial.
+     */
+    public enum Role {
+        FACTOR,
+        INPUT
+    }
+
     public static final int DEFAULT_BUCKETS = 5;
 
     public Direction effectiveDirection() {
@@ -112,6 +124,11 @@ public record FactorDefinition(
         return output != null ? output : Output.SIGNAL;
     }
 
+    /** The role as declared, or null: an undeclared role is decided by the library (see research.FactorRoles). */
+    public Role declaredRole() {
+        return role;
+    }
+
     public Universe effectiveUniverse() {
         return universe != null ? universe : Universe.ALL;
     }
@@ -122,7 +139,7 @@ public record FactorDefinition(
 
     /**
      * Canonical text of every field that affects the built series, with defaults filled in: two definitions with
-     * equal keys build identical series. Free text (theme, rationale, found-on date) is left out.
+     * equal keys build identical series. Free text (theme, rationale, found-on date) and the role are left out.
      */
     public String constructionKey() {
         StringJoiner key = new StringJoiner(";");
@@ -146,6 +163,33 @@ public record FactorDefinition(
             key.add("control=" + (control.signal() == null ? "null" : RecipeJson.canonical(control.signal())) + ":" + control.buckets());
         }
         return key.toString();
+    }
+
+    /**
+     * The panel columns besides return and market_cap that building this definition reads: those of the signal and
+     * control recipes, the {@code within} column, the label columns of universe filters and segment, and the
+     * breakpoint subset's column. A panel source may leave every other column out.
+     */
+    public java.util.Set<String> columnsRead() {
+        java.util.Set<String> columns = new java.util.TreeSet<>();
+        for (Recipe recipe : new Recipe[] {signal, control == null ? null : control.signal()}) {
+            if (recipe != null) {
+                columns.addAll(recipe.numberColumns());
+                columns.addAll(recipe.labelColumns());
+            }
+        }
+        if (within != null) {
+            columns.add(within);
+        }
+        Universe u = effectiveUniverse();
+        columns.addAll(u.labelFilters().keySet());
+        if (u.segment() != null) {
+            columns.add(u.segment().column());
+        }
+        if (breakpoints != null) {
+            columns.add(breakpoints.column());
+        }
+        return columns;
     }
 
     /**
@@ -184,7 +228,7 @@ public record FactorDefinition(
     /** The same definition restricted to another universe (all other fields unchanged). */
     public FactorDefinition withUniverse(Universe value) {
         return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance, rebalanceMonth,
-                output, riskFree, value, breakpoints, within, control, costBps, theme, rationale, foundOn);
+                output, riskFree, value, breakpoints, within, control, costBps, theme, rationale, foundOn, role);
     }
 
     public static Builder builder(Method method) {
@@ -212,6 +256,7 @@ public record FactorDefinition(
         private String theme;
         private String rationale;
         private LocalDate foundOn;
+        private Role role;
 
         private Builder(Method method) {
             this.method = method;
@@ -313,9 +358,14 @@ public record FactorDefinition(
             return this;
         }
 
+        public Builder role(Role value) {
+            role = value;
+            return this;
+        }
+
         public FactorDefinition build() {
             return new FactorDefinition(method, panel, signal, direction, buckets, weighting, lag, rebalance,
-                    rebalanceMonth, output, riskFree, universe, breakpoints, within, control, costBps, theme, rationale, foundOn);
+                    rebalanceMonth, output, riskFree, universe, breakpoints, within, control, costBps, theme, rationale, foundOn, role);
         }
     }
 }

@@ -31,6 +31,16 @@ final class ColumnTally {
         present++;
     }
 
+    /** Adds another tally of the same column (a later part of the file). */
+    void merge(ColumnTally other) {
+        present += other.present;
+        missing += other.missing;
+        numbers += other.numbers;
+        min = Math.min(min, other.min);
+        max = Math.max(max, other.max);
+        sum += other.sum;
+    }
+
     ColumnSummary summary(ColumnType type) {
         if (type == ColumnType.LABEL || numbers == 0) {
             return new ColumnSummary(type, present, missing, Double.NaN, Double.NaN, Double.NaN);

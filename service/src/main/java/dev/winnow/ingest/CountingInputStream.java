@@ -7,7 +7,8 @@ import java.io.InputStream;
 /** Counts the bytes read through it (for progress over the file on disk, compressed or not). */
 final class CountingInputStream extends FilterInputStream {
 
-    private long count;
+    /** Volatile: a progress reporter on another thread reads it. */
+    private volatile long count;
 
     CountingInputStream(InputStream in) {
         super(in);

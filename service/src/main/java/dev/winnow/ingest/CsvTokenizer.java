@@ -39,6 +39,8 @@ final class CsvTokenizer {
     /** Start of the current record in buf: bytes before it may be discarded on refill. */
     private int recordStart;
     private int lastShift;
+    /** Input bytes dropped from the front of buf so far. */
+    private long dropped;
 
     private int[] starts = new int[16];
     private int[] ends = new int[16];
@@ -108,6 +110,16 @@ final class CsvTokenizer {
             }
             return true;
         }
+    }
+
+    /** Input bytes consumed so far: the offset, in the stream, of the first byte after the current record. */
+    long position() {
+        return dropped + pos + (pendingLf && pos < limit && buf[pos] == '\n' ? 1 : 0);
+    }
+
+    /** Physical line (1-based) of the next unread byte. */
+    long nextLine() {
+        return line;
     }
 
     int fieldCount() {
@@ -287,6 +299,7 @@ final class CsvTokenizer {
             pos -= shift;
             limit -= shift;
             recordStart = 0;
+            dropped += shift;
             for (int i = 0; i < count; i++) {
                 starts[i] -= shift;
                 ends[i] -= shift;

@@ -17,10 +17,10 @@ final class DateBlock {
         void duplicate(int securityId, long firstLine, long line);
     }
 
-    final int[] ids;
-    final long[] lines;
-    final double[] returns;
-    final double[] marketCaps;
+    int[] ids;
+    long[] lines;
+    double[] returns;
+    double[] marketCaps;
     final double[][] numbers;
     final String[][] labels;
     int size;
@@ -32,6 +32,41 @@ final class DateBlock {
         marketCaps = new double[rows];
         numbers = new double[numberColumns][rows];
         labels = new String[labelColumns][rows];
+    }
+
+    /** Makes room for one more row, doubling the arrays when full (for blocks whose row count is not known ahead). */
+    void ensureRoom() {
+        if (size < ids.length) {
+            return;
+        }
+        int capacity = Math.max(16, ids.length * 2);
+        ids = Arrays.copyOf(ids, capacity);
+        lines = Arrays.copyOf(lines, capacity);
+        returns = Arrays.copyOf(returns, capacity);
+        marketCaps = Arrays.copyOf(marketCaps, capacity);
+        for (int c = 0; c < numbers.length; c++) {
+            numbers[c] = Arrays.copyOf(numbers[c], capacity);
+        }
+        for (int c = 0; c < labels.length; c++) {
+            labels[c] = Arrays.copyOf(labels[c], capacity);
+        }
+    }
+
+    /** Cuts the arrays to the rows held, so that a block filled through {@link #ensureRoom} is full. */
+    void trim() {
+        if (size == ids.length) {
+            return;
+        }
+        ids = Arrays.copyOf(ids, size);
+        lines = Arrays.copyOf(lines, size);
+        returns = Arrays.copyOf(returns, size);
+        marketCaps = Arrays.copyOf(marketCaps, size);
+        for (int c = 0; c < numbers.length; c++) {
+            numbers[c] = Arrays.copyOf(numbers[c], size);
+        }
+        for (int c = 0; c < labels.length; c++) {
+            labels[c] = Arrays.copyOf(labels[c], size);
+        }
     }
 
     boolean isFull() {

@@ -28,6 +28,31 @@ final class DateTable {
 
     /** Counts one row at the date (in file order). */
     void record(LocalDate date) {
+        int i = indexOrAdd(date);
+        counts[i]++;
+        if (i != currentBlock) {
+            if (currentBlock >= 0) {
+                closedBlocks.set(currentBlock);
+                ascending &= date.isAfter(dates.get(currentBlock));
+            }
+            contiguous &= !closedBlocks.get(i);
+            currentBlock = i;
+        }
+    }
+
+    /**
+     * Adds another table's dates and counts (a later part of the file), in its order of first appearance. Whether the
+     * file keeps dates together is then no longer tracked: {@link #inDateOrder} answers false.
+     */
+    void absorb(DateTable other) {
+        for (int k = 0; k < other.size(); k++) {
+            int i = indexOrAdd(other.date(k)); // may grow counts: index first
+            counts[i] += other.count(k);
+        }
+        contiguous = false;
+    }
+
+    private int indexOrAdd(LocalDate date) {
         int i = indexOf(date);
         if (i < 0) {
             i = dates.size();
@@ -39,15 +64,7 @@ final class DateTable {
             lookedUp = date;
             lookedUpIndex = i;
         }
-        counts[i]++;
-        if (i != currentBlock) {
-            if (currentBlock >= 0) {
-                closedBlocks.set(currentBlock);
-                ascending &= date.isAfter(dates.get(currentBlock));
-            }
-            contiguous &= !closedBlocks.get(i);
-            currentBlock = i;
-        }
+        return i;
     }
 
     /** Index of a known date, or -1. */

@@ -61,6 +61,27 @@ final class ExtraColumn {
         deferredRows.set(Math.toIntExact(rowIndex));
     }
 
+    /** Adds the state of the same column over a later part of the file (lines and rows offset as given). */
+    void merge(ExtraColumn other, long lineOffset, long rowOffset) {
+        tally.merge(other.tally);
+        sawText |= other.sawText;
+        sawNumber |= other.sawNumber;
+        int kept = (int) Math.min(other.deferredCells, other.deferredLines.length);
+        for (int i = 0; i < kept; i++) {
+            if (deferredCells < deferredLines.length) {
+                deferredLines[(int) deferredCells] = other.deferredLines[i] + lineOffset;
+                deferredTexts[(int) deferredCells] = other.deferredTexts[i];
+            }
+            deferredCells++;
+        }
+        deferredCells += other.deferredCells - kept;
+        if (other.deferredRows != null) {
+            for (int r = other.deferredRows.nextSetBit(0); r >= 0; r = other.deferredRows.nextSetBit(r + 1)) {
+                deferRow(r + rowOffset);
+            }
+        }
+    }
+
     /**
      * Once the type is known: for a NUMBER column report the deferred cells and add their otherwise clean rows to
      * {@code rejectedRows}.

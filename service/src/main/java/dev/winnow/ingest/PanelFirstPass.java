@@ -34,6 +34,18 @@ final class PanelFirstPass {
     private boolean rowFailed;
     private int[] rowDeferred = new int[0];
     private int rowDeferredCount;
+    /** Told about every row without a problem, with what its cells hold; null when nobody listens. */
+    private RowListener listener;
+    private LocalDate rowDate;
+    private double rowReturn;
+    private double rowCap;
+    /** The numbers read from the extra columns of the current row (NaN for labels and missing cells). */
+    double[] rowNumbers = new double[0];
+
+    /** Receives the rows of a scan that have no problem (so far: see {@link ExtraColumn} on deferred cells). */
+    interface RowListener {
+        void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] numbers);
+    }
 
     PanelFirstPass(PanelUpload upload, ErrorCollector errors, ProgressMeter meter) {
         this.upload = upload;
@@ -51,6 +63,7 @@ final class PanelFirstPass {
             }
             extras = extraColumns(layout);
             rowDeferred = new int[extras.length];
+            rowNumbers = new double[extras.length];
             scanRows(csv);
             if (rowsRead == 0 && errors.isEmpty()) {
                 errors.add(header.line() + 1, null, Messages.noDataRows());
@@ -68,6 +81,50 @@ final class PanelFirstPass {
             errors.add(Math.max(1, line), null, Messages.notGzip(badGzip.getMessage()));
         }
         settleDeferred();
+    }
+
+    /**
+     * Scans the records of one chunk of the file (no header) with the given layout, telling {@code rowListener}
+     * about each row without a problem. Lines are counted from the tokenizer's start (1); deferred cells are not
+     * settled ({@link #mergeChunk} and {@link #settle} do that for the whole file).
+     */
+    void scanChunk(CsvTokenizer csv, PanelLayout chunkLayout, RowListener rowListener) throws IOException {
+        layout = chunkLayout;
+        listener = rowListener;
+        extras = extraColumns(layout);
+        rowDeferred = new int[extras.length];
+        rowNumbers = new double[extras.length];
+        scanRows(csv);
+    }
+
+    /**
+     * Adds a later chunk's counts, tallies, dates, column states and errors to this whole-file pass; the chunk's
+     * lines start at {@code lineOffset + 1} and its rows at index {@code rowOffset} of the file.
+     */
+    void mergeChunk(PanelFirstPass chunk, ErrorCollector chunkErrors, long lineOffset, long rowOffset) {
+        for (UploadError e : chunkErrors.errors()) {
+            errors.add(e.line() + lineOffset, e.column(), e.message());
+        }
+        errors.countOnly(chunkErrors.total() - chunkErrors.errors().size());
+        rowsRead += chunk.rowsRead;
+        rowsRejected += chunk.rowsRejected;
+        returns.merge(chunk.returns);
+        marketCaps.merge(chunk.marketCaps);
+        dates.absorb(chunk.dates);
+        for (int i = 0; i < extras.length; i++) {
+            extras[i].merge(chunk.extras[i], lineOffset, rowOffset);
+        }
+    }
+
+    /** Once every chunk is merged: settles the deferred cells (see {@link #run}). */
+    void settle() {
+        settleDeferred();
+    }
+
+    /** Starts a whole-file pass for chunks: the header's layout, no rows yet. */
+    void startChunked(PanelLayout chunkLayout) {
+        layout = chunkLayout;
+        extras = extraColumns(layout);
     }
 
     private ExtraColumn[] extraColumns(PanelLayout layout) {
@@ -92,6 +149,9 @@ final class PanelFirstPass {
                 checkCells(csv);
             }
             finishRow();
+            if (listener != null && !rowFailed) {
+                listener.row(csv, line, rowDate, rowReturn, rowCap, rowNumbers);
+            }
             if (rowsRead % ProgressMeter.REPORT_EVERY == 0) {
                 meter.report(rowsRead, rowsRejected, 0);
             }
@@ -108,26 +168,31 @@ final class PanelFirstPass {
         if (r < -1) {
             fail(PanelUpload.RETURN, Messages.returnBelowMinusOne(trimmedText(csv, layout.returnField)));
         }
+        rowReturn = r;
+        rowCap = Double.NaN;
         if (layout.marketCapField >= 0) {
             double cap = checkNumber(csv, layout.marketCapField, PanelUpload.MARKET_CAP, marketCaps);
             if (cap <= 0) {
                 fail(PanelUpload.MARKET_CAP, Messages.marketCapNotPositive(trimmedText(csv, layout.marketCapField)));
             }
+            rowCap = cap;
         }
         for (int i = 0; i < extras.length; i++) {
             ExtraColumn column = extras[i];
+            rowNumbers[i] = Double.NaN;
             if (column.existingType == ColumnType.NUMBER) {
-                checkNumber(csv, column.field, column.name, column.tally);
+                rowNumbers[i] = checkNumber(csv, column.field, column.name, column.tally);
             } else if (column.existingType == ColumnType.LABEL || column.sawText) {
                 checkLabel(csv, column);
             } else {
-                checkNewColumnCell(csv, column, i);
+                rowNumbers[i] = checkNewColumnCell(csv, column, i);
             }
         }
     }
 
     private void checkDate(CsvTokenizer csv, int field) {
         String problem = dateRule.check(csv, field);
+        rowDate = dateRule.date();
         if (dateRule.date() != null) {
             dates.record(dateRule.date());
         }
@@ -197,7 +262,8 @@ final class PanelFirstPass {
         }
     }
 
-    private void checkNewColumnCell(CsvTokenizer csv, ExtraColumn column, int index) {
+    /** Checks a cell of a new column whose type is still open; returns its number, NaN when missing or text. */
+    private double checkNewColumnCell(CsvTokenizer csv, ExtraColumn column, int index) {
         switch (number.read(csv.buffer(), csv.start(column.field), csv.end(column.field))) {
             case EMPTY -> column.tally.missing();
             case NUMBER -> {
@@ -222,6 +288,7 @@ final class PanelFirstPass {
                 }
             }
         }
+        return number.value();
     }
 
     private void finishRow() {

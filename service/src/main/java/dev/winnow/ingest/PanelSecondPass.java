@@ -260,6 +260,11 @@ final class PanelSecondPass {
 
     /** The code behind an id, by a reverse map built when the first duplicate needs it. */
     private String codeOf(int securityId) {
+        return codeOf(idsByCode, codesById, securityId);
+    }
+
+    /** The code behind an id, by a reverse map ({@code codesById}, rebuilt when codes were added) of {@code idsByCode}. */
+    static String codeOf(Map<String, Integer> idsByCode, Map<Integer, String> codesById, int securityId) {
         if (codesById.size() != idsByCode.size()) {
             codesById.clear();
             idsByCode.forEach((code, id) -> codesById.put(id, code));

@@ -28,6 +28,16 @@ final class ProgressMeter {
         this.fileSize = Math.max(1, Files.size(file));
     }
 
+    private ProgressMeter() {
+        this.listener = ProgressListener.NONE;
+        this.fileSize = 1;
+    }
+
+    /** A meter that reports nothing but still stops an interrupted parse (for chunks scanned by worker threads). */
+    static ProgressMeter silent() {
+        return new ProgressMeter();
+    }
+
     /** Opens the file for a scan that covers the fractions [start, start + share). */
     InputStream open(Path file, boolean gzip, double start, double share) throws IOException {
         scan = new CountingInputStream(Files.newInputStream(file));
@@ -39,6 +49,9 @@ final class ProgressMeter {
     void report(long rowsRead, long rowsRejected, long rowsEmitted) throws InterruptedIOException {
         if (Thread.currentThread().isInterrupted()) {
             throw new InterruptedIOException("the upload parse was interrupted");
+        }
+        if (scan == null) {
+            return;
         }
         double withinScan = Math.min(1.0, (double) scan.count() / fileSize);
         emit(scanStart + scanShare * withinScan, rowsRead, rowsRejected, rowsEmitted);

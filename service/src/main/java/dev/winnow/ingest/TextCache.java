@@ -14,10 +14,57 @@ final class TextCache {
     private byte[][] keys = new byte[1024][];
     private String[] texts = new String[1024];
     private int[] hashes = new int[1024];
+    private int[] indexes = new int[1024];
+    private String[] byIndex = new String[64];
     private int size;
 
     TextCache(int capacityLimit) {
         this.capacityLimit = capacityLimit;
+    }
+
+    /**
+     * A dense index (0, 1, 2, ... in order of first sight) of the text of bytes [s, e), or -1 past the capacity
+     * limit; {@link #textAt} gives the text back.
+     */
+    int indexOf(byte[] b, int s, int e) {
+        int hash = hash(b, s, e);
+        int mask = keys.length - 1;
+        int slot = hash & mask;
+        for (byte[] key = keys[slot]; key != null; key = keys[slot]) {
+            if (hashes[slot] == hash && Arrays.equals(key, 0, key.length, b, s, e)) {
+                return indexes[slot];
+            }
+            slot = (slot + 1) & mask;
+        }
+        if (size >= capacityLimit) {
+            return -1;
+        }
+        insert(slot, hash, b, s, e, new String(b, s, e - s, StandardCharsets.UTF_8));
+        return size - 1;
+    }
+
+    /** The text with the given {@link #indexOf} index. */
+    String textAt(int index) {
+        return byIndex[index];
+    }
+
+    /** Texts kept so far. */
+    int size() {
+        return size;
+    }
+
+    private void insert(int slot, int hash, byte[] b, int s, int e, String text) {
+        keys[slot] = Arrays.copyOfRange(b, s, e);
+        texts[slot] = text;
+        hashes[slot] = hash;
+        indexes[slot] = size;
+        if (size == byIndex.length) {
+            byIndex = Arrays.copyOf(byIndex, size * 2);
+        }
+        byIndex[size] = text;
+        if (++size * 2 > keys.length) {
+            grow();
+        }
     }
 
     /** The text of bytes [s, e). */
@@ -33,12 +80,7 @@ final class TextCache {
         }
         String text = new String(b, s, e - s, StandardCharsets.UTF_8);
         if (size < capacityLimit) {
-            keys[slot] = Arrays.copyOfRange(b, s, e);
-            texts[slot] = text;
-            hashes[slot] = hash;
-            if (++size * 2 > keys.length) {
-                grow();
-            }
+            insert(slot, hash, b, s, e, text);
         }
         return text;
     }
@@ -55,9 +97,11 @@ final class TextCache {
         byte[][] oldKeys = keys;
         String[] oldTexts = texts;
         int[] oldHashes = hashes;
+        int[] oldIndexes = indexes;
         keys = new byte[oldKeys.length * 2][];
         texts = new String[keys.length];
         hashes = new int[keys.length];
+        indexes = new int[keys.length];
         int mask = keys.length - 1;
         for (int i = 0; i < oldKeys.length; i++) {
             if (oldKeys[i] != null) {
@@ -68,6 +112,7 @@ final class TextCache {
                 keys[slot] = oldKeys[i];
                 texts[slot] = oldTexts[i];
                 hashes[slot] = oldHashes[i];
+                indexes[slot] = oldIndexes[i];
             }
         }
     }

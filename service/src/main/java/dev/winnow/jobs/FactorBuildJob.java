@@ -1,5 +1,6 @@
 package dev.winnow.jobs;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
@@ -27,9 +28,9 @@ public final class FactorBuildJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String name = (String) params.get("factor");
-        int version = ((Number) params.get("version")).intValue();
+        JobParams.FactorBuild params = JobParams.of(job, JobParams.FactorBuild.class);
+        String name = params.factor();
+        int version = params.version();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
             return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
@@ -53,7 +54,7 @@ public final class FactorBuildJob implements JobHandler {
         List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.listCurrent(false));
         java.util.Set<String> changed = new java.util.HashSet<>(List.of(name));
         for (FactorVersionRecord dependent : live) {
-            if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
+            if (dependent.method() == FactorDefinition.Method.EXTERNAL || dependent.status() != VersionStatus.READY) {
                 continue;
             }
             FactorDefinition def = FactorBuilds.definition(dependent);

@@ -29,15 +29,13 @@ public final class FamilyBuildJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String family = (String) params.get("family");
+        JobParams.FamilyBuild params = JobParams.of(job, JobParams.FamilyBuild.class);
+        String family = params.family();
         List<FactorVersionRecord> versions = new ArrayList<>();
         List<Map<String, Object>> errors = new ArrayList<>();
-        @SuppressWarnings("unchecked")
-        List<Map<String, Object>> wanted = (List<Map<String, Object>>) params.get("versions");
-        for (Map<String, Object> w : wanted) {
-            String name = (String) w.get("factor");
-            int version = ((Number) w.get("version")).intValue();
+        for (JobParams.FamilyBuild.Member w : params.versions()) {
+            String name = w.factor();
+            int version = w.version();
             factors.version(name, version).ifPresentOrElse(versions::add,
                     () -> errors.add(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
         }

@@ -2,10 +2,6 @@ package dev.winnow.jobs;
 
 import dev.winnow.research.WorkQueue;
 import dev.winnow.store.JobStore;
-import dev.winnow.store.JsonText;
-
-import java.util.LinkedHashMap;
-import java.util.Map;
 
 /** Queues jobs in the store, with the resources they touch (see {@link JobResources}), and wakes the local worker. */
 public final class JobQueue implements WorkQueue {
@@ -27,10 +23,10 @@ public final class JobQueue implements WorkQueue {
         this.worker = worker;
     }
 
-    public long enqueue(String kind, Map<String, Object> params) {
+    public long enqueue(JobParams params) {
         java.util.List<JobStore.Resource> touched = resources == null
-                ? java.util.List.of(JobStore.Resource.writes(JobStore.Resource.EVERYTHING)) : resources.of(kind, params);
-        long id = jobs.enqueue(kind, JsonText.write(params), touched);
+                ? java.util.List.of(JobStore.Resource.writes(JobStore.Resource.EVERYTHING)) : resources.of(params);
+        long id = jobs.enqueue(params.kind(), params.json(), touched);
         JobWorker w = worker;
         if (w != null) {
             w.wake();
@@ -40,22 +36,17 @@ public final class JobQueue implements WorkQueue {
 
     @Override
     public long queueFactorBuild(String factor, int version) {
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("factor", factor);
-        params.put("version", version);
-        return enqueue(JobKinds.FACTOR_BUILD, params);
+        return enqueue(new JobParams.FactorBuild(factor, version));
     }
 
     @Override
-    public long queueFamilyBuild(String family, java.util.List<Map<String, Object>> versions) {
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("family", family);
-        params.put("versions", versions);
-        return enqueue(JobKinds.FAMILY_BUILD, params);
+    public long queueFamilyBuild(String family, java.util.List<WorkQueue.FactorVersion> versions) {
+        return enqueue(new JobParams.FamilyBuild(family,
+                versions.stream().map(v -> new JobParams.FamilyBuild.Member(v.factor(), v.version())).toList()));
     }
 
     @Override
     public long queueLoadingsHistory(String panel, long panelId) {
-        return enqueue(LoadingsJobs.KIND, LoadingsJobs.params(panel, panelId));
+        return enqueue(new JobParams.LoadingsHistory(panel, panelId));
     }
 }

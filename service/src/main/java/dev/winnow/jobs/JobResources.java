@@ -7,7 +7,6 @@ import dev.winnow.store.PanelStore;
 
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Map;
 
 /**
  * What each kind of job reads and writes, which decides the order jobs run in when several workers share the queue:
@@ -39,24 +38,23 @@ public final class JobResources {
         return "factor:" + name;
     }
 
-    public List<Resource> of(String kind, Map<String, Object> params) {
+    public List<Resource> of(JobParams params) {
         List<Resource> resources = new ArrayList<>();
-        switch (kind) {
-            case JobKinds.PANEL_UPLOAD -> resources.add(Resource.writes(panel(String.valueOf(params.get("panel")))));
-            case LoadingsJobs.KIND -> resources.add(Resource.reads(panel(String.valueOf(params.get("panel")))));
-            case JobKinds.FACTOR_BUILD -> {
-                String name = String.valueOf(params.get("factor"));
-                resources.add(Resource.writes(factor(name)));
-                FactorVersionRecord v = params.get("version") instanceof Number n
-                        ? factors.version(name, n.intValue()).orElse(null) : null;
-                if (v == null || v.panelId() == null) {
-                    resources.add(Resource.writes(Resource.EVERYTHING));
-                } else {
-                    panels.find(v.panelId()).ifPresentOrElse(p -> resources.add(Resource.reads(panel(p.name()))),
-                            () -> resources.add(Resource.writes(Resource.EVERYTHING)));
-                }
+        if (params instanceof JobParams.PanelUpload upload) {
+            resources.add(Resource.writes(panel(upload.panel())));
+        } else if (params instanceof JobParams.LoadingsHistory history) {
+            resources.add(Resource.reads(panel(history.panel())));
+        } else if (params instanceof JobParams.FactorBuild build) {
+            resources.add(Resource.writes(factor(build.factor())));
+            FactorVersionRecord v = factors.version(build.factor(), build.version()).orElse(null);
+            if (v == null || v.panelId() == null) {
+                resources.add(Resource.writes(Resource.EVERYTHING));
+            } else {
+                panels.find(v.panelId()).ifPresentOrElse(p -> resources.add(Resource.reads(panel(p.name()))),
+                        () -> resources.add(Resource.writes(Resource.EVERYTHING)));
             }
-            default -> resources.add(Resource.writes(Resource.EVERYTHING));
+        } else {
+            resources.add(Resource.writes(Resource.EVERYTHING));
         }
         return resources;
     }

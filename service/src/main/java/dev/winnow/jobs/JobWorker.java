@@ -1,6 +1,7 @@
 package dev.winnow.jobs;
 
 import dev.winnow.store.JobLease;
+import dev.winnow.store.JobKind;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
 import dev.winnow.store.StorageFaults;
@@ -62,7 +63,7 @@ public final class JobWorker implements AutoCloseable {
     }
 
     private final JobStore jobs;
-    private final Map<String, JobHandler> handlers;
+    private final Map<JobKind, JobHandler> handlers;
     private final Settings settings;
     private final JobObserver observer;
     private final Object signal = new Object();
@@ -72,7 +73,7 @@ public final class JobWorker implements AutoCloseable {
     private final ScheduledExecutorService renewer;
     private volatile boolean running = true;
 
-    public JobWorker(JobStore jobs, Map<String, JobHandler> handlers, Settings settings, JobObserver observer) {
+    public JobWorker(JobStore jobs, Map<JobKind, JobHandler> handlers, Settings settings, JobObserver observer) {
         this.jobs = jobs;
         this.handlers = Map.copyOf(handlers);
         this.settings = settings;
@@ -202,7 +203,7 @@ public final class JobWorker implements AutoCloseable {
         JobOutcome outcome;
         try {
             if (handler == null) {
-                throw new IllegalStateException("no handler for job kind '" + job.kind() + "'");
+                throw new IllegalStateException("no handler for job kind '" + job.kind().wireName() + "'");
             }
             outcome = handler.run(job, progress);
         } catch (JobLease.LeaseLostException e) {

@@ -2,29 +2,16 @@ package dev.winnow.jobs;
 
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.store.JobStore.Counters;
-import dev.winnow.store.JsonText;
 
-import java.util.LinkedHashMap;
 import java.util.Map;
 import java.util.function.DoubleConsumer;
 
 /** The background job that computes and stores a panel's loadings for its whole history. */
 public final class LoadingsJobs {
-    /** Job kind of a history computation; params {"panel": name, "panel_id": id}. */
-    public static final String KIND = "loadings_history";
-
     private final LoadingsRefresh refresh;
 
     public LoadingsJobs(LoadingsRefresh refresh) {
         this.refresh = refresh;
-    }
-
-    /** The job parameters for a panel. */
-    public static Map<String, Object> params(String panelName, long panelId) {
-        Map<String, Object> params = new LinkedHashMap<>();
-        params.put("panel", panelName);
-        params.put("panel_id", panelId);
-        return params;
     }
 
     /**
@@ -38,14 +25,11 @@ public final class LoadingsJobs {
         return refresh.computeHistory(panelId, progress);
     }
 
-    /** The handler to register for {@link #KIND}. */
+    /** The handler to register for {@link dev.winnow.store.JobKind#LOADINGS_HISTORY}. */
     public JobHandler handler() {
         return (job, progress) -> {
-            Object panelId = JsonText.readMap(job.params()).get("panel_id");
-            if (!(panelId instanceof Number id)) {
-                throw new IllegalArgumentException("job parameters lack a numeric panel_id: " + job.params());
-            }
-            Map<String, Object> report = computeHistory(id.longValue(), progress::report);
+            long panelId = JobParams.of(job, JobParams.LoadingsHistory.class).panelId();
+            Map<String, Object> report = computeHistory(panelId, progress::report);
             long dates = ((Number) report.get("computed_dates")).longValue();
             return JobOutcome.success(new Counters(1.0, dates, dates, 0), report);
         };

@@ -1,5 +1,6 @@
 package dev.winnow.jobs;
 
+import dev.winnow.construct.CrossSection;
 import dev.winnow.ingest.ColumnType;
 import dev.winnow.ingest.PanelParseResult;
 import dev.winnow.ingest.PanelUpload;
@@ -7,6 +8,7 @@ import dev.winnow.ingest.PanelUploadParser;
 import dev.winnow.ingest.UploadError;
 import dev.winnow.ingest.UploadMode;
 import dev.winnow.ingest.UploadSpool;
+import dev.winnow.ingest.CrossSectionSink;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -16,6 +18,7 @@ import dev.winnow.store.JsonText;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import dev.winnow.store.SecurityDictionary;
+import dev.winnow.store.SliceStager;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
@@ -54,12 +57,13 @@ public final class PanelUploadJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) throws Exception {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String panelName = (String) params.get("panel");
-        boolean revise = "revise".equals(params.get("mode"));
-        String file = (String) params.get("file");
+        JobParams.PanelUpload params = JobParams.of(job, JobParams.PanelUpload.class);
+        String panelName = params.panel();
+        boolean revise = params.revise();
+        String file = params.file();
         long panelId = panels.createPanelIfAbsent(panelName);
 
+        Map<String, Object> timings = new LinkedHashMap<>();
         Optional<List<LocalDate>> already = panels.committedUploadDates(job.id());
         panels.discardStagingOfJob(job.id());
         Counters counters;
@@ -77,14 +81,34 @@ public final class PanelUploadJob implements JobHandler {
                 }
             });
             LocalDate lastDate = panel.visible() && !revise ? panel.lastDate() : null;
-            PanelUpload upload = new PanelUpload(spool.resolve(file), Boolean.TRUE.equals(params.get("gzip")),
+            PanelUpload upload = new PanelUpload(spool.resolve(file), params.gzip(),
                     revise ? UploadMode.REVISE : UploadMode.APPEND, lastDate, existing);
             long uploadId = panels.beginUpload(panelId, job.id(), revise ? "revise" : "append");
             PanelParseResult result;
-            try {
-                SecurityDictionary ids = panels.securityDictionary(panelId, uploadId);
-                result = parser.parse(upload, ids::idFor, cs -> panels.stageSlice(panelId, uploadId, cs),
+            long parseStart = System.nanoTime();
+            try (SliceStager stager = panels.stager(panelId, uploadId)) {
+                SecurityDictionary ids = panels.batchedSecurityDictionary(panelId, uploadId);
+                result = parser.parse(upload, ids::idFor, new CrossSectionSink() {
+                            @Override
+                            public void accept(CrossSection cs) throws InterruptedException {
+                                stager.accept(cs);
+                            }
+
+                            @Override
+                            public void discardAccepted() {
+                                stager.discardStaged();
+                            }
+                        },
                         p -> progress.report(new Counters(0.9 * p.fraction(), p.rowsRead(), p.rowsAccepted(), p.rowsRejected())));
+                if (result.accepted()) {
+                    long parsed = System.nanoTime();
+                    ids.flush();
+                    SliceStager.Stats staged = stager.finish();
+                    timings.put("parse", millis(parsed - parseStart));
+                    timings.put("staging_after_parse", millis(System.nanoTime() - parsed));
+                    timings.put("encode", millis(staged.encodeNanos()));
+                    timings.put("stage_writes", millis(staged.writeNanos()));
+                }
             } catch (Exception | Error e) {
                 panels.discardUpload(uploadId);
                 throw e;
@@ -100,7 +124,9 @@ public final class PanelUploadJob implements JobHandler {
             if (result.stats().columns().containsKey(PanelUpload.MARKET_CAP) && !stored.containsKey(PanelUpload.MARKET_CAP)) {
                 newColumns.put(PanelUpload.MARKET_CAP, "number");
             }
+            long commitStart = System.nanoTime();
             panels.commitUpload(panelId, uploadId, newColumns);
+            timings.put("commit", millis(System.nanoTime() - commitStart));
             dates = result.dates();
         }
         progress.report(counters);
@@ -111,19 +137,26 @@ public final class PanelUploadJob implements JobHandler {
         report.put("dates", dates.size());
         report.put("first_date", dates.isEmpty() ? null : dates.get(0));
         report.put("last_date", dates.isEmpty() ? null : dates.get(dates.size() - 1));
+        long factorsStart = System.nanoTime();
         report.put("factors", updateFactors(panelId, revise ? earliest(dates) : null, revise));
+        timings.put("factors", millis(System.nanoTime() - factorsStart));
         for (PanelChangeListener listener : listeners) {
             report.putAll(listener.afterUpload(panelId, dates, revise));
         }
+        report.put("timings_ms", timings);
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
+    }
+
+    private static long millis(long nanos) {
+        return nanos / 1_000_000;
     }
 
     /** Whatever the end: staged rows that did not commit are discarded and the spooled body removed. */
     @Override
     public void afterEnd(JobRecord job) {
         panels.discardStagingOfJob(job.id());
-        spool.delete((String) JsonText.readMap(job.params()).get("file"));
+        spool.delete(JobParams.of(job, JobParams.PanelUpload.class).file());
     }
 
     /** The earliest of the dates, or null (then a revision rebuilds from scratch). */

@@ -1,5 +1,6 @@
 package dev.winnow.jobs;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.ingest.ExternalSeriesParser;
 import dev.winnow.ingest.SeriesParseResult;
@@ -41,18 +42,18 @@ public final class SeriesUploadJob implements JobHandler {
 
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) throws Exception {
-        Map<String, Object> params = JsonText.readMap(job.params());
-        String name = (String) params.get("factor");
-        int version = ((Number) params.get("version")).intValue();
-        boolean revise = "revise".equals(params.get("mode"));
-        String file = (String) params.get("file");
+        JobParams.SeriesUpload params = JobParams.of(job, JobParams.SeriesUpload.class);
+        String name = params.factor();
+        int version = params.version();
+        boolean revise = params.revise();
+        String file = params.file();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
             return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
         }
         ReturnSeries stored = factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD);
         LocalDate lastDate = revise || stored.size() == 0 ? null : stored.date(stored.size() - 1);
-        SeriesParseResult result = parser.parse(spool.resolve(file), Boolean.TRUE.equals(params.get("gzip")),
+        SeriesParseResult result = parser.parse(spool.resolve(file), params.gzip(),
                 revise ? UploadMode.REVISE : UploadMode.APPEND, lastDate);
         Counters counters = new Counters(0.5, result.rowsRead(), result.rowsAccepted(), result.rowsRejected());
         if (!result.accepted()) {
@@ -83,13 +84,13 @@ public final class SeriesUploadJob implements JobHandler {
     /** Whatever the end, the spooled body is removed. */
     @Override
     public void afterEnd(JobRecord job) {
-        spool.delete((String) JsonText.readMap(job.params()).get("file"));
+        spool.delete(JobParams.of(job, JobParams.SeriesUpload.class).file());
     }
 
     private List<Map<String, Object>> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
         List<Map<String, Object>> rebuilt = new ArrayList<>();
         for (FactorVersionRecord dependent : factors.listCurrent(false)) {
-            if (dependent.method().equals("external") || !dependent.status().equals("ready")) {
+            if (dependent.method() == FactorDefinition.Method.EXTERNAL || dependent.status() != VersionStatus.READY) {
                 continue;
             }
             FactorDefinition def = FactorBuilds.definition(dependent);

@@ -21,7 +21,7 @@ public final class EvidenceJson {
         out.put("factor", trial.name());
         out.put("version", trial.version().version());
         out.put("retired", trial.version().retired());
-        out.put("status", trial.version().status());
+        out.put("status", trial.version().status().wireName());
         out.put("theme", trial.theme());
         out.put("family", trial.version().family());
         out.put("n", s.n());

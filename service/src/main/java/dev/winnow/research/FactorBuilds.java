@@ -71,7 +71,7 @@ public final class FactorBuilds {
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
     public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
         Map<String, Object> report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
@@ -93,10 +93,12 @@ public final class FactorBuilds {
         List<TogetherOutcome> out = new ArrayList<>();
         Map<Long, List<FactorVersionRecord>> byPanel = new LinkedHashMap<>();
         Map<Long, List<FactorEngine.Member>> members = new LinkedHashMap<>();
+        Map<Long, java.util.Set<String>> columns = new LinkedHashMap<>();
         for (FactorVersionRecord v : versions) {
             try {
                 FactorDefinition def = definition(v);
-                panelSource(v);
+                panelSource(v, def);
+                columns.computeIfAbsent(v.panelId(), k -> new java.util.TreeSet<>()).addAll(def.columnsRead());
                 FactorEngine.Member m = new FactorEngine.Member(def, riskFree(def), signalFactors(def));
                 byPanel.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(v);
                 members.computeIfAbsent(v.panelId(), k -> new ArrayList<>()).add(m);
@@ -107,7 +109,7 @@ public final class FactorBuilds {
         long totalDates = 0;
         Map<Long, StorePanelSource> sources = new LinkedHashMap<>();
         for (Long panelId : byPanel.keySet()) {
-            StorePanelSource source = new StorePanelSource(panels, panelId);
+            StorePanelSource source = new StorePanelSource(panels, panelId, columns.get(panelId)::contains);
             sources.put(panelId, source);
             totalDates += source.dates().size();
         }
@@ -143,7 +145,7 @@ public final class FactorBuilds {
         Map<String, Object> previous = v.buildReport() == null ? Map.of() : JsonText.readMap(v.buildReport());
         int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v), riskFree(def), signalFactors(def), state,
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), state,
                 previousObservations, previousMissing, checkpointDates);
         Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
@@ -159,7 +161,7 @@ public final class FactorBuilds {
      */
     public Map<String, Object> rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        StorePanelSource panel = panelSource(v);
+        StorePanelSource panel = panelSource(v, def);
         StoredCheckpoint checkpoint = earliestChanged == null ? null
                 : factors.latestCheckpointBefore(v.factorId(), v.version(), earliestChanged)
                         .filter(c -> resumable(c, def, panel.dates()))
@@ -186,7 +188,7 @@ public final class FactorBuilds {
      */
     public Holdings holdings(FactorVersionRecord v, int dateIndex) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        StorePanelSource panel = panelSource(v);
+        StorePanelSource panel = panelSource(v, def);
         int formation = FactorEngine.latestFormation(def, panel.dates(), dateIndex);
         if (formation < 0) {
             return null;
@@ -203,7 +205,7 @@ public final class FactorBuilds {
 
     /** The grid of a version's panel. */
     public List<LocalDate> grid(FactorVersionRecord v) throws FactorBuildException {
-        return panelSource(v).dates();
+        return panelSource(v, definition(v)).dates();
     }
 
     /** Whether the checkpoint still sits at its grid position and belongs to this definition. */
@@ -255,11 +257,12 @@ public final class FactorBuilds {
         return report;
     }
 
-    private StorePanelSource panelSource(FactorVersionRecord v) throws FactorBuildException {
+    /** The version's panel, decoding only the columns the definition reads. */
+    private StorePanelSource panelSource(FactorVersionRecord v, FactorDefinition def) throws FactorBuildException {
         if (v.panelId() == null) {
             throw new FactorBuildException("factor '" + v.name() + "' has no panel to build from");
         }
-        return new StorePanelSource(panels, v.panelId());
+        return new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
     }
 
     private ReturnSeries riskFree(FactorDefinition def) throws FactorBuildException {
@@ -308,7 +311,7 @@ public final class FactorBuilds {
         if (placed.contains(v.name()) || !visiting.add(v.name())) {
             return;
         }
-        if (!v.method().equals("external")) {
+        if (v.method() != FactorDefinition.Method.EXTERNAL) {
             FactorDefinition def = definition(v);
             for (String name : def.factorsRead()) {
                 FactorVersionRecord dependency = byName.get(name);

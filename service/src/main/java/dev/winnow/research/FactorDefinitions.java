@@ -58,7 +58,7 @@ public final class FactorDefinitions {
         if (!outcome.created()) {
             return new Defined(v, false, null);
         }
-        if (v.method().equals(DefinitionJson.wire(Method.EXTERNAL))) {
+        if (v.method() == Method.EXTERNAL) {
             factors.saveBuild(v.factorId(), v.version(), List.of(), List.of(), null, null, true, null);
             return new Defined(factors.version(name, v.version()).orElseThrow(), true, null);
         }
@@ -120,7 +120,7 @@ public final class FactorDefinitions {
     /** Records a checked definition: a new version when it differs from the current one (no build is queued). */
     public DefineOutcome record(String name, Checked checked) {
         FactorDefinition def = checked.definition();
-        return factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), checked.panelId());
+        return factors.define(name, DefinitionJson.toCanonicalString(def), def.method(), checked.panelId());
     }
 
     /**
@@ -151,7 +151,7 @@ public final class FactorDefinitions {
             return false;
         }
         FactorVersionRecord v = factors.current(from).orElse(null);
-        if (v == null || v.method().equals("external")) {
+        if (v == null || v.method() == Method.EXTERNAL) {
             return false;
         }
         FactorDefinition def = FactorBuilds.definition(v);

@@ -1,5 +1,7 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorEngine;
 import dev.winnow.research.TrialLibrary.Snapshot;
@@ -87,7 +89,7 @@ public final class FactorEvidence {
         numbers.put("rank_correlation", Double.NaN);
         if (def == null || def.method() != FactorDefinition.Method.SORT) {
             return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(),
-                    "Only sort factors have buckets to compare; this is a " + trial.version().method() + " factor."), unavailable);
+                    "Only sort factors have buckets to compare; this is a " + DefinitionJson.wire(trial.version().method()) + " factor."), unavailable);
         }
         if (unavailable != null) {
             return EvidenceJson.section(numbers, new SectionVerdict(Verdict.NOT_ENOUGH_DATA, Monotonicity.thresholds(), unavailable), unavailable);
@@ -149,8 +151,8 @@ public final class FactorEvidence {
 
     /**
      * The factors of the spanning regression: those named (each must be another live factor on the monthly basis),
-     * or by default every other live factor with at least min_months months in common with this one, risk-free rates
-     * left out (a near-constant regressor is almost collinear with the intercept).
+     * or by default every other live factor with at least min_months months in common with this one, inputs and
+     * risk-free rates left out (a near-constant regressor is almost collinear with the intercept).
      */
     public static List<Trial> against(Trial trial, Snapshot library, List<String> named) {
         List<Trial> live = library.live();
@@ -188,8 +190,8 @@ public final class FactorEvidence {
         if (!trial.inTable()) {
             return "This factor is " + trial.exclusionReason() + "; it is no trial and has no evidence of its own.";
         }
-        if (!"ready".equals(trial.version().status())) {
-            return "This version's status is " + trial.version().status() + ", so it has no series yet.";
+        if (trial.version().status() != VersionStatus.READY) {
+            return "This version's status is " + trial.version().status().wireName() + ", so it has no series yet.";
         }
         return null;
     }
@@ -232,7 +234,7 @@ public final class FactorEvidence {
             for (Trial other : library.live()) {
                 boolean related = (theme != null && theme.equals(other.theme()))
                         || (family != null && family.equals(other.version().family()));
-                if (!other.name().equals(trial.name()) && related && other.usable()) {
+                if (!other.name().equals(trial.name()) && related && other.candidate()) {
                     members.add(other);
                 }
             }

@@ -1,5 +1,7 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
+import dev.winnow.construct.FactorDefinition;
 import com.fasterxml.jackson.annotation.JsonProperty;
 import dev.winnow.construct.Holdings;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -44,12 +46,12 @@ public final class FactorHoldings {
      * @throws InvalidRequestException for a date before the panel or before the first formation
      */
     public View at(FactorVersionRecord v, LocalDate date) {
-        if (v.method().equals("external")) {
+        if (v.method() == FactorDefinition.Method.EXTERNAL) {
             throw new ConflictException("Factor '" + v.name() + "' is an external series (its returns are uploaded), so it"
                     + " holds no securities.");
         }
-        if (!v.status().equals("ready")) {
-            throw new ConflictException("Factor '" + v.name() + "' version " + v.version() + " is " + v.status()
+        if (v.status() != VersionStatus.READY) {
+            throw new ConflictException("Factor '" + v.name() + "' version " + v.version() + " is " + v.status().wireName()
                     + ", not ready; wait for its build job.");
         }
         List<LocalDate> grid;

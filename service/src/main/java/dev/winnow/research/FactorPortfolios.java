@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
 import dev.winnow.stats.Frequency;
 import dev.winnow.stats.FrequencyConversion;
 import dev.winnow.stats.ReturnSeries;
@@ -37,7 +38,7 @@ public final class FactorPortfolios {
     public Table table(FactorVersionRecord v, LocalDate from, LocalDate to, Frequency target, boolean cumulative) {
         List<String> names = SeriesNames.portfolioNames(v);
         if (names.isEmpty()) {
-            throw new ConflictException("Factor '" + v.name() + "' is a " + v.method() + " factor and has no portfolios;"
+            throw new ConflictException("Factor '" + v.name() + "' is a " + DefinitionJson.wire(v.method()) + " factor and has no portfolios;"
                     + " the methods that have them are sort (its buckets) and size_sort (its six 2x3 portfolios).");
         }
         Map<String, ReturnSeries> stored = factors.portfolios(v.factorId(), v.version());

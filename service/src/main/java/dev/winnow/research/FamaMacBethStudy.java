@@ -89,13 +89,12 @@ public final class FamaMacBethStudy {
         }
         Universe universe = request.universe() == null ? Universe.ALL : request.universe();
         // only the columns the signals and the universe read are decoded
-        java.util.Set<String> numbers = new java.util.TreeSet<>();
-        java.util.Set<String> labels = new java.util.TreeSet<>(universe.labelColumns());
+        java.util.Set<String> columns = new java.util.TreeSet<>(universe.labelColumns());
         for (Recipe recipe : request.signals().values()) {
-            numbers.addAll(recipe.numberColumns());
-            labels.addAll(recipe.labelColumns());
+            columns.addAll(recipe.numberColumns());
+            columns.addAll(recipe.labelColumns());
         }
-        StorePanelSource source = new StorePanelSource(panels, panel.id(), new PanelStore.Columns(numbers, labels));
+        StorePanelSource source = new StorePanelSource(panels, panel.id(), columns::contains);
         List<CrossSectionSignal> signals = new ArrayList<>();
         for (Recipe recipe : request.signals().values()) {
             signals.add(CrossSectionSignal.of(recipe, source, signalFactors(recipe)));

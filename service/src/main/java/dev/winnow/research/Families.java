@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import com.fasterxml.jackson.annotation.JsonProperty;
 import com.fasterxml.jackson.databind.JsonNode;
 import com.fasterxml.jackson.databind.ObjectMapper;
@@ -158,7 +159,7 @@ public final class Families {
     }
 
     private Declared record(String name, JsonNode body, List<Variant> variants, List<FactorDefinitions.Checked> checked) {
-        List<Map<String, Object>> toBuild = new ArrayList<>();
+        List<WorkQueue.FactorVersion> toBuild = new ArrayList<>();
         List<DeclaredVariant> declared = new ArrayList<>();
         for (int i = 0; i < variants.size(); i++) {
             Variant v = variants.get(i);
@@ -176,10 +177,7 @@ public final class Families {
             }
             DefineOutcome outcome = definitions.record(v.factor(), checked.get(i));
             if (outcome.created()) {
-                Map<String, Object> entry = new LinkedHashMap<>();
-                entry.put("factor", v.factor());
-                entry.put("version", outcome.version().version());
-                toBuild.add(entry);
+                toBuild.add(new WorkQueue.FactorVersion(v.factor(), outcome.version().version()));
             }
             declared.add(new DeclaredVariant(v.n(), v.factor(), v.parameters().toString()));
         }
@@ -221,7 +219,7 @@ public final class Families {
             }
         }
         for (FactorVersionRecord c : candidates) {
-            if ("failed".equals(c.status())) {
+            if (c.status() == VersionStatus.FAILED) {
                 continue;
             }
             dev.winnow.construct.DefinitionJson.Parsed parsed = dev.winnow.construct.DefinitionJson.read(c.definitionJson());
@@ -375,10 +373,10 @@ public final class Families {
             FactorVersionRecord current = factors.current(v.factorName()).orElseThrow();
             TrialLibrary.Trial trial = snapshot.find(current).orElse(null);
             dev.winnow.stats.TrialStatistics s = trial == null || trial.row() == null ? null : trial.row().statistics();
-            rows.add(new VariantView(v.factorName(), current.version(), readJson(v.parametersJson()), current.status(),
+            rows.add(new VariantView(v.factorName(), current.version(), readJson(v.parametersJson()), current.status().wireName(),
                     s == null ? null : s.n(), finite(s == null ? Double.NaN : s.mean()), finite(s == null ? Double.NaN : s.nwTStat()),
                     finite(s == null ? Double.NaN : s.pValue()), finite(s == null ? Double.NaN : s.sharpe())));
-            if ("ready".equals(current.status()) && s != null && Double.isFinite(s.nwTStat())) {
+            if (current.status() == VersionStatus.READY && s != null && Double.isFinite(s.nwTStat())) {
                 readyTrials.add(trial);
             }
         }

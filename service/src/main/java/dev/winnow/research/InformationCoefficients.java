@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorDefinition.Method;
@@ -64,16 +65,14 @@ public final class InformationCoefficients {
         FactorVersionRecord v = request.version();
         FactorDefinition def = FactorBuilds.definition(v);
         if (def.method() != Method.SORT && def.method() != Method.SIZE_SORT && def.method() != Method.RANK_WEIGHTED) {
-            throw new ConflictException("Factor '" + v.name() + "' is a " + v.method() + " factor and has no signal;"
+            throw new ConflictException("Factor '" + v.name() + "' is a " + DefinitionJson.wire(v.method()) + " factor and has no signal;"
                     + " information coefficients exist for sort, size_sort and rank_weighted factors.");
         }
         if (v.panelId() == null) {
             throw new InvalidRequestException("Factor '" + v.name() + "' has no panel.");
         }
-        // only the columns the signal and the universe read are decoded
-        java.util.Set<String> labels = new java.util.TreeSet<>(def.signal().labelColumns());
-        labels.addAll(def.effectiveUniverse().labelColumns());
-        StorePanelSource panel = new StorePanelSource(panels, v.panelId(), new PanelStore.Columns(def.signal().numberColumns(), labels));
+        // only the columns the definition reads are decoded
+        StorePanelSource panel = new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
         Map<String, ReturnSeries> signalFactors = new LinkedHashMap<>();
         for (String name : def.signal().factors()) {
             FactorVersionRecord f = factors.catalog().current(name).orElseThrow(() -> new InvalidRequestException(

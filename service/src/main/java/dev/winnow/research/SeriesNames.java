@@ -34,28 +34,61 @@ public final class SeriesNames {
     public record Resolved(String name, FactorVersionRecord version, String portfolio, ReturnSeries series) {
     }
 
+    /**
+     * A name resolved to what it reads, without reading it: the factor version (whose data version covers its
+     * spread, legs and portfolios alike, since every build bumps it) and the portfolio (null for the spread).
+     */
+    public record Named(String name, FactorVersionRecord version, String portfolio) {
+        public boolean isPortfolio() {
+            return portfolio != null;
+        }
+    }
+
     /** The stored series a name denotes, at its native frequency. */
     public Resolved resolve(String name, String parameter) {
+        Named named = name(name, parameter);
+        return new Resolved(name, named.version(), named.portfolio(), series(named, FactorStore.Leg.SPREAD));
+    }
+
+    /**
+     * What a name denotes, from the in-memory catalog and the version's definition (no store query), so that a
+     * cached answer can be keyed and served before any series is read.
+     */
+    public Named name(String name, String parameter) {
         int colon = name.lastIndexOf(':');
         String factor = colon < 0 ? name : name.substring(0, colon);
         FactorVersionRecord v = factors.catalog().current(factor)
                 .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + factor + "' in '" + parameter
                         + "'; GET /v1/factors lists them."));
         if (colon < 0) {
-            return new Resolved(name, v, null, factors.series(v, FactorStore.Leg.SPREAD));
+            return new Named(name, v, null);
         }
         String portfolio = name.substring(colon + 1);
         List<String> names = portfolioNames(v);
         if (names.isEmpty()) {
             throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' is a "
-                    + v.method() + " factor and has no portfolios; sort and size_sort factors have them.");
+                    + DefinitionJson.wire(v.method()) + " factor and has no portfolios; sort and size_sort factors have them.");
         }
         if (!names.contains(portfolio)) {
             throw new InvalidRequestException("'" + name + "' in '" + parameter + "': factor '" + factor + "' has no portfolio '"
                     + portfolio + "'; its portfolios are " + String.join(", ", names) + ".");
         }
-        ReturnSeries series = factors.portfolios(v.factorId(), v.version()).getOrDefault(portfolio, ReturnSeries.empty());
-        return new Resolved(name, v, portfolio, series);
+        return new Named(name, v, portfolio);
+    }
+
+    /**
+     * The stored series of a resolved name: {@code leg} of the factor, or the portfolio's returns (a portfolio has
+     * only its own returns: asking for another leg than the spread is a problem).
+     */
+    public ReturnSeries series(Named named, FactorStore.Leg leg) {
+        if (!named.isPortfolio()) {
+            return factors.series(named.version(), leg);
+        }
+        if (leg != FactorStore.Leg.SPREAD) {
+            throw new InvalidRequestException("'" + named.name() + "' is a portfolio; it has no " + leg.name().toLowerCase(java.util.Locale.ROOT)
+                    + " form (net and legs are a factor's). Drop the option or name the factor itself.");
+        }
+        return factors.portfolios(named.version()).getOrDefault(named.portfolio(), ReturnSeries.empty());
     }
 
     /** The series a name denotes on the monthly basis of the evidence table, restricted to months from..to. */

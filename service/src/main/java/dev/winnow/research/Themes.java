@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.research.TrialLibrary.Snapshot;
 import dev.winnow.research.TrialLibrary.Trial;
@@ -32,10 +33,10 @@ public final class Themes {
     /**
      * The live factors by declared theme, and the clusters of those with at least three monthly returns by average
      * linkage on 1 - rho (Pearson, monthly, pairwise complete) cut at {@code threshold}; the others are listed with
-     * the reason they could not be clustered.
+     * the reason they could not be clustered. Inputs are in no theme and no cluster.
      */
     public Map<String, Object> comparison(Snapshot library, double threshold) {
-        List<Trial> live = library.live();
+        List<Trial> live = library.live().stream().filter(t -> !t.input()).toList();
         List<String> clusteredNames = new ArrayList<>();
         List<String> clusteredThemes = new ArrayList<>();
         List<ReturnSeries> clusteredSeries = new ArrayList<>();
@@ -49,7 +50,7 @@ public final class Themes {
                 Map<String, Object> e = new LinkedHashMap<>();
                 e.put("factor", t.name());
                 e.put("reason", t.excluded() ? t.basis().excludedReason()
-                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status() + ")");
+                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status().wireName() + ")");
                 excluded.add(e);
             }
         }
@@ -74,12 +75,14 @@ public final class Themes {
     public record Composite(String theme, List<String> factors, Frequency frequency, ReturnSeries series) {
     }
 
-    /** The theme's live members with a series; {@link UnknownNameException} when there is none. */
+    /** The theme's live members with a series, inputs left out; {@link UnknownNameException} when there is none. */
     public List<FactorVersionRecord> members(String theme) {
         List<FactorVersionRecord> members = new ArrayList<>();
-        for (FactorVersionRecord v : factors.listCurrent(false)) {
+        List<FactorVersionRecord> live = factors.listCurrent(false);
+        FactorRoles roles = FactorRoles.of(live);
+        for (FactorVersionRecord v : live) {
             DefinitionJson.Parsed parsed = DefinitionJson.read(v.definitionJson());
-            if (parsed.ok() && theme.equals(parsed.definition().theme()) && "ready".equals(v.status())) {
+            if (parsed.ok() && theme.equals(parsed.definition().theme()) && v.status() == VersionStatus.READY && !roles.input(v.name())) {
                 members.add(v);
             }
         }

@@ -1,5 +1,6 @@
 package dev.winnow.research;
 
+import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.stats.MonthlyBasis;
@@ -11,9 +12,7 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 
 import java.util.ArrayList;
-import java.util.HashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.Optional;
 
 /**
@@ -21,17 +20,16 @@ import java.util.Optional;
  * them. Versions whose status is not ready get an empty series. Quarterly and annual series are no trial (they cannot
  * be put on the monthly basis) and stay out of the table with the reason.
  *
- * <p>By default every other version is a trial, as the rule says: every version ever built. That includes a risk-free
- * rate (a factor some definition names as its {@code risk_free}), whose Sharpe ratio, huge for a near-constant series,
- * dominates the variance V of the deflated Sharpe ratio. On request ({@code risk_free=exclude}) such rates are left
- * out of the table with the reason: they are what premia are measured against, not candidate premia. Either way a
- * risk-free rate is never a default regressor of the spanning regression. Each variant's snapshot is reused until any
- * version's status, data version or retirement changes.
+ * <p>Every version of every candidate factor is a trial, as the rule says: every version ever built. Inputs
+ * ({@link FactorRoles}: declared {@code "role": "input"}, or undeclared and named as a live definition's
+ * {@code risk_free}) are no trials: they are what premia are measured against or regressed on, not candidate premia,
+ * and a near-constant risk-free rate's huge Sharpe ratio would dominate the variance V of the deflated Sharpe ratio.
+ * They stay out of the table with the reason. Neither an input nor a risk-free rate is a default regressor of the
+ * spanning regression. The snapshot is reused until any version's status, data version or retirement changes.
  */
 public final class TrialLibrary {
     private final FactorStore factors;
-    private volatile Snapshot cachedAll;
-    private volatile Snapshot cachedWithoutRiskFree;
+    private volatile Snapshot cached;
 
     public TrialLibrary(FactorStore factors) {
         this.factors = factors;
@@ -42,11 +40,11 @@ public final class TrialLibrary {
      *
      * @param row          its row of the table; null when it is no trial (see {@link #exclusionReason()})
      * @param note         why its statistics are null (not ready, too short, no variation), or null
-     * @param riskFreeOf   a factor whose definition subtracts this one as its risk-free rate, or null
-     * @param riskFreeLeftOut true when the snapshot leaves risk-free rates out of the table
+     * @param riskFreeOf   a live factor whose definition subtracts this one as its risk-free rate, or null
+     * @param inputReason  why the factor is an input (see {@link FactorRoles}), or null for a candidate factor
      */
     public record Trial(FactorVersionRecord version, FactorDefinition definition, MonthlyBasis basis, TrialRow row, String note,
-                 String riskFreeOf, boolean riskFreeLeftOut) {
+                 String riskFreeOf, String inputReason) {
         public String name() {
             return version.name();
         }
@@ -64,18 +62,19 @@ public final class TrialLibrary {
             return basis.excluded();
         }
 
+        /** An input: served and usable, but no trial, in no theme and no default regressor. */
+        public boolean input() {
+            return inputReason != null;
+        }
+
         /** True when the version is a trial with a row in the table. */
         public boolean inTable() {
-            return !excluded() && !(riskFreeLeftOut && riskFreeOf != null);
+            return !excluded() && !input();
         }
 
         /** Why the version is no trial, or null when it is one. */
         public String exclusionReason() {
-            if (excluded()) {
-                return basis.excludedReason();
-            }
-            return !riskFreeLeftOut || riskFreeOf == null ? null : "the risk-free rate that factor '" + riskFreeOf
-                    + "' subtracts: a rate every premium is measured against, not a candidate premium";
+            return excluded() ? basis.excludedReason() : inputReason;
         }
 
         public ReturnSeries monthly() {
@@ -87,9 +86,14 @@ public final class TrialLibrary {
             return !excluded() && monthly().size() >= TrialStatistics.MIN_OBSERVATIONS;
         }
 
-        /** Usable and not a risk-free rate: a default regressor of the spanning regression. */
+        /** Usable, a candidate factor and not a risk-free rate: a default regressor of the spanning regression. */
         public boolean premium() {
-            return usable() && riskFreeOf == null;
+            return usable() && !input() && riskFreeOf == null;
+        }
+
+        /** Usable and a candidate factor: a member of themes, clusters and a factor's variants. */
+        public boolean candidate() {
+            return usable() && !input();
         }
     }
 
@@ -104,45 +108,30 @@ public final class TrialLibrary {
         }
     }
 
-    /** Every version as a trial, as the rule says. */
+    /** Every version of every candidate factor as a trial; inputs listed as excluded with the reason. */
     public Snapshot snapshot() {
-        return snapshot(false);
-    }
-
-    /** With {@code leaveOutRiskFree}, risk-free rates are listed as excluded instead of counted as trials. */
-    public Snapshot snapshot(boolean leaveOutRiskFree) {
         List<FactorVersionRecord> versions = factors.allVersions();
         String key = keyOf(versions);
-        Snapshot current = leaveOutRiskFree ? cachedWithoutRiskFree : cachedAll;
+        Snapshot current = cached;
         if (current != null && current.key().equals(key)) {
             return current;
         }
-        Snapshot fresh = build(key, versions, leaveOutRiskFree);
-        if (leaveOutRiskFree) {
-            cachedWithoutRiskFree = fresh;
-        } else {
-            cachedAll = fresh;
-        }
+        Snapshot fresh = build(key, versions);
+        cached = fresh;
         return fresh;
     }
 
-    private Snapshot build(String key, List<FactorVersionRecord> versions, boolean leaveOutRiskFree) {
+    private Snapshot build(String key, List<FactorVersionRecord> versions) {
         List<FactorDefinition> definitions = versions.stream().map(TrialLibrary::definitionOf).toList();
-        Map<String, String> riskFreeOf = new HashMap<>();
-        for (int i = 0; i < versions.size(); i++) {
-            FactorDefinition def = definitions.get(i);
-            if (def != null && def.riskFree() != null) {
-                riskFreeOf.putIfAbsent(def.riskFree(), versions.get(i).name());
-            }
-        }
+        FactorRoles roles = FactorRoles.of(versions);
         List<Trial> unranked = new ArrayList<>();
         List<TrialStatistics> statistics = new ArrayList<>();
         for (int i = 0; i < versions.size(); i++) {
             FactorVersionRecord v = versions.get(i);
-            boolean ready = "ready".equals(v.status());
+            boolean ready = v.status() == VersionStatus.READY;
             ReturnSeries series = ready ? factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD) : ReturnSeries.empty();
-            Trial trial = new Trial(v, definitions.get(i), MonthlyBasis.of(series), null, null, riskFreeOf.get(v.name()),
-                    leaveOutRiskFree);
+            Trial trial = new Trial(v, definitions.get(i), MonthlyBasis.of(series), null, null, roles.riskFreeOf(v.name()),
+                    roles.inputReason(v.name()));
             unranked.add(trial);
             if (trial.inTable()) {
                 statistics.add(ready ? TrialStatistics.of(trial.monthly().values()) : TrialStatistics.undefined(0));
@@ -154,14 +143,14 @@ public final class TrialLibrary {
         for (Trial t : unranked) {
             TrialRow r = t.inTable() ? table.rows().get(row++) : null;
             trials.add(new Trial(t.version(), t.definition(), t.basis(), r, r == null ? null : noteOf(t.version(), r.statistics()),
-                    t.riskFreeOf(), leaveOutRiskFree));
+                    t.riskFreeOf(), t.inputReason()));
         }
         return new Snapshot(key, List.copyOf(trials), table);
     }
 
     private static String noteOf(FactorVersionRecord v, TrialStatistics s) {
-        if (!"ready".equals(v.status())) {
-            return "status " + v.status() + ": no series to test";
+        if (v.status() != VersionStatus.READY) {
+            return "status " + v.status().wireName() + ": no series to test";
         }
         if (s.n() < TrialStatistics.MIN_OBSERVATIONS) {
             return "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns";
@@ -178,7 +167,7 @@ public final class TrialLibrary {
         StringBuilder key = new StringBuilder();
         for (FactorVersionRecord v : versions) {
             key.append(v.factorId()).append('.').append(v.version()).append('.').append(v.currentVersion()).append('.')
-                    .append(v.status()).append('.').append(v.dataVersion()).append('.').append(v.retired()).append(';');
+                    .append(v.status().wireName()).append('.').append(v.dataVersion()).append('.').append(v.retired()).append(';');
         }
         return key.toString();
     }

@@ -9,7 +9,11 @@ public interface WorkQueue {
     long queueFactorBuild(String factor, int version);
 
     /** Queues the build of a family's new variant versions, in one pass over each panel; returns the job id. */
-    long queueFamilyBuild(String family, java.util.List<java.util.Map<String, Object>> versions);
+    long queueFamilyBuild(String family, java.util.List<FactorVersion> versions);
+
+    /** One version of one factor. */
+    record FactorVersion(String factor, int version) {
+    }
 
     /** Queues the job that stores the loadings of every date of a panel under its config; returns the job id. */
     long queueLoadingsHistory(String panel, long panelId);

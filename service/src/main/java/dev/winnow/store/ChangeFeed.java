@@ -7,10 +7,10 @@ package dev.winnow.store;
  *
  * <p>Contract, for every implementation: after {@code committed(t)} returns on any instance that shares the store,
  * {@code version(t)} on every instance answers a value it never answered before the commit. With one process this
- * is a counter ({@link LocalChangeFeed}). With several instances on one PostgreSQL store, an implementation also
- * publishes each commit to the others (for example with PostgreSQL {@code NOTIFY} in the same transaction and a
- * listener that bumps the local counter, plus a version check when the listener reconnects) and must say how long
- * "after" may be. See DEVELOPERS.md, "Serving from memory".
+ * is a counter ({@link LocalChangeFeed}). With several instances on one PostgreSQL store,
+ * {@link PostgresChangeFeed#committed} returns only once every live instance has acknowledged the change, so
+ * "after" means at once; an instance that could not be waited for checks the store before answering. See
+ * DEVELOPERS.md, "The change feed".
  */
 public interface ChangeFeed {
 

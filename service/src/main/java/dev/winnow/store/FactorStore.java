@@ -1,5 +1,7 @@
 package dev.winnow.store;
 
+import dev.winnow.construct.DefinitionJson;
+import dev.winnow.construct.FactorDefinition;
 import dev.winnow.stats.ReturnSeries;
 import org.jdbi.v3.core.Handle;
 import org.jdbi.v3.core.Jdbi;
@@ -24,8 +26,9 @@ public final class FactorStore {
             + "v.status, v.data_version, v.build_report, v.created_at, v.built_at, f.retired_at, "
             + "(SELECT fam.name FROM families fam WHERE fam.id = f.family_id)";
     private static final RowMapper<FactorVersionRecord> VERSION = (rs, ctx) -> new FactorVersionRecord(
-            rs.getLong(1), rs.getString(2), rs.getInt(3), rs.getInt(4), rs.getString(5), rs.getString(6),
-            (Long) rs.getObject(7, Long.class), rs.getString(8), rs.getLong(9), rs.getString(10),
+            rs.getLong(1), rs.getString(2), rs.getInt(3), rs.getInt(4), rs.getString(5),
+            FactorDefinition.Method.valueOf(rs.getString(6).toUpperCase(java.util.Locale.ROOT)),
+            (Long) rs.getObject(7, Long.class), VersionStatus.fromWire(rs.getString(8)), rs.getLong(9), rs.getString(10),
             rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class),
             rs.getString(14));
 
@@ -92,7 +95,7 @@ public final class FactorStore {
     }
 
     public record FactorVersionRecord(long factorId, String name, int version, int currentVersion, String definitionJson,
-                                      String method, Long panelId, String status, long dataVersion, String buildReport,
+                                      FactorDefinition.Method method, Long panelId, VersionStatus status, long dataVersion, String buildReport,
                                       OffsetDateTime createdAt, OffsetDateTime builtAt, OffsetDateTime retiredAt,
                                       String family) {
         public boolean retired() {
@@ -166,7 +169,7 @@ public final class FactorStore {
      * and that version is returned with {@code created = false}; otherwise a new version counts up from the last.
      * Re-defining a retired factor brings it back.
      */
-    public DefineOutcome define(String name, String definitionJson, String method, Long panelId) {
+    public DefineOutcome define(String name, String definitionJson, FactorDefinition.Method method, Long panelId) {
         DefineOutcome outcome = defineWithRetries(name, definitionJson, method, panelId);
         if (outcome.created()) {
             announce();
@@ -174,7 +177,7 @@ public final class FactorStore {
         return outcome;
     }
 
-    private DefineOutcome defineWithRetries(String name, String definitionJson, String method, Long panelId) {
+    private DefineOutcome defineWithRetries(String name, String definitionJson, FactorDefinition.Method method, Long panelId) {
         // Concurrent definitions of one factor: in this process they take turns on a lock per name; across
         // processes the factor row is locked (FOR UPDATE) and a transaction that lost a race on the unique name or
         // the (factor, version) key is run again, so versions count up without gaps or duplicates.
@@ -219,7 +222,7 @@ public final class FactorStore {
         return false;
     }
 
-    private DefineOutcome defineOnce(String name, String definitionJson, String method, Long panelId) {
+    private DefineOutcome defineOnce(String name, String definitionJson, FactorDefinition.Method method, Long panelId) {
         return jdbi.inTransaction(h -> {
             OffsetDateTime now = OffsetDateTime.now(ZoneOffset.UTC);
             Optional<Long> existing = h.createQuery("SELECT id FROM factors WHERE name = :n FOR UPDATE").bind("n", name).mapTo(Long.class).findOne();
@@ -234,7 +237,7 @@ public final class FactorStore {
                 FactorVersionRecord current = h.createQuery("SELECT " + VERSION_COLUMNS + " FROM factors f JOIN factor_versions v "
                                 + "ON v.factor_id = f.id AND v.version = f.current_version WHERE f.id = :id")
                         .bind("id", factorId).map(VERSION).one();
-                if (current.definitionJson().equals(definitionJson) && !current.retired() && !"failed".equals(current.status())) {
+                if (current.definitionJson().equals(definitionJson) && !current.retired() && current.status() != VersionStatus.FAILED) {
                     return new DefineOutcome(current, false);
                 }
                 version = h.createQuery("SELECT MAX(version) FROM factor_versions WHERE factor_id = :id")
@@ -242,7 +245,7 @@ public final class FactorStore {
             }
             h.createUpdate("INSERT INTO factor_versions (factor_id, version, definition, method, panel_id, status, data_version, created_at) "
                             + "VALUES (:f, :v, :d, :m, :p, 'building', 0, :now)")
-                    .bind("f", factorId).bind("v", version).bind("d", definitionJson).bind("m", method)
+                    .bind("f", factorId).bind("v", version).bind("d", definitionJson).bind("m", DefinitionJson.wire(method))
                     .bind("p", panelId).bind("now", now).execute();
             h.createUpdate("UPDATE factors SET current_version = :v, retired_at = NULL WHERE id = :f")
                     .bind("v", version).bind("f", factorId).execute();
@@ -535,9 +538,24 @@ public final class FactorStore {
      * the definition does). Cached like {@link #series} and checked against the data version.
      */
     public Map<String, ReturnSeries> portfolios(long factorId, int version) {
-        long dataVersion = dataVersion(factorId, version);
+        return portfolios(factorId, version, -1);
+    }
+
+    /**
+     * The same for a version whose data version the caller already knows (from the {@link #catalog()}): no query
+     * when the portfolios of that data version are held in memory.
+     */
+    public Map<String, ReturnSeries> portfolios(FactorVersionRecord v) {
+        return portfolios(v.factorId(), v.version(), v.dataVersion());
+    }
+
+    private Map<String, ReturnSeries> portfolios(long factorId, int version, long knownDataVersion) {
         SeriesKey key = new SeriesKey(factorId, version, null);
         CachedPortfolios cached = recentPortfolios.get(key);
+        if (cached != null && knownDataVersion >= 0 && cached.dataVersion() == knownDataVersion) {
+            return cached.series();
+        }
+        long dataVersion = dataVersion(factorId, version);
         if (cached != null && cached.dataVersion() == dataVersion) {
             return cached.series();
         }

@@ -17,7 +17,7 @@ import java.util.Optional;
 public final class JobStore {
     private static final String COLUMNS = "id, kind, state, progress, rows_read, rows_accepted, rows_rejected, params, errors, report, created_at, started_at, finished_at";
     private static final RowMapper<JobRecord> MAPPER = (rs, ctx) -> new JobRecord(
-            rs.getLong(1), rs.getString(2), rs.getString(3), rs.getDouble(4), rs.getLong(5), rs.getLong(6), rs.getLong(7),
+            rs.getLong(1), JobKind.fromWire(rs.getString(2)), JobState.fromWire(rs.getString(3)), rs.getDouble(4), rs.getLong(5), rs.getLong(6), rs.getLong(7),
             rs.getString(8), rs.getString(9), rs.getString(10),
             rs.getObject(11, OffsetDateTime.class), rs.getObject(12, OffsetDateTime.class), rs.getObject(13, OffsetDateTime.class));
 
@@ -27,7 +27,7 @@ public final class JobStore {
         this.jdbi = jdbi;
     }
 
-    public record JobRecord(long id, String kind, String state, double progress, long rowsRead, long rowsAccepted,
+    public record JobRecord(long id, JobKind kind, JobState state, double progress, long rowsRead, long rowsAccepted,
                             long rowsRejected, String params, String errors, String report,
                             OffsetDateTime createdAt, OffsetDateTime startedAt, OffsetDateTime finishedAt) {
     }
@@ -50,7 +50,7 @@ public final class JobStore {
     }
 
     /** Queues a job that touches everything (it keeps its order against every other job). */
-    public long enqueue(String kind, String paramsJson) {
+    public long enqueue(JobKind kind, String paramsJson) {
         return enqueue(kind, paramsJson, java.util.List.of(Resource.writes(Resource.EVERYTHING)));
     }
 
@@ -59,7 +59,7 @@ public final class JobStore {
      * first, so concurrent enqueues (from any instance) commit in id order and no job ever becomes visible behind
      * a later one that already started.
      */
-    public long enqueue(String kind, String paramsJson, java.util.List<Resource> resources) {
+    public long enqueue(JobKind kind, String paramsJson, java.util.List<Resource> resources) {
         if (resources.isEmpty()) {
             throw new IllegalArgumentException("a job needs at least one resource");
         }
@@ -67,7 +67,7 @@ public final class JobStore {
             h.createUpdate("UPDATE job_queue_order SET last = last + 1 WHERE id = 1").execute();
             long id = h.createUpdate("INSERT INTO jobs (kind, state, progress, rows_read, rows_accepted, rows_rejected, params, created_at) "
                             + "VALUES (:kind, 'queued', 0, 0, 0, 0, :params, :now)")
-                    .bind("kind", kind).bind("params", paramsJson).bind("now", now())
+                    .bind("kind", kind.wireName()).bind("params", paramsJson).bind("now", now())
                     .executeAndReturnGeneratedKeys("id").mapTo(Long.class).one();
             java.util.Map<String, Boolean> merged = new java.util.TreeMap<>();
             for (Resource r : resources) {
@@ -131,9 +131,9 @@ public final class JobStore {
     }
 
     /** Queued and running jobs of one kind, oldest first. */
-    public java.util.List<JobRecord> unfinished(String kind) {
+    public java.util.List<JobRecord> unfinished(JobKind kind) {
         return jdbi.withHandle(h -> h.createQuery("SELECT " + COLUMNS + " FROM jobs WHERE state IN ('queued', 'running') AND kind = :k ORDER BY id")
-                .bind("k", kind).map(MAPPER).list());
+                .bind("k", kind.wireName()).map(MAPPER).list());
     }
 
     /** Jobs waiting and running, for /health. */
@@ -164,7 +164,7 @@ public final class JobStore {
         return jdbi.withHandle(h -> h.createUpdate("UPDATE jobs SET state = :state, progress = :p, rows_read = :r, rows_accepted = :a, "
                         + "rows_rejected = :x, errors = :errors, report = :report, finished_at = :now, finished_by = :o, lease_until = NULL "
                         + "WHERE id = :id AND lease_owner = :o AND state = 'running'")
-                .bind("id", id).bind("o", owner).bind("state", succeeded ? "succeeded" : "failed")
+                .bind("id", id).bind("o", owner).bind("state", (succeeded ? JobState.SUCCEEDED : JobState.FAILED).wireName())
                 .bind("p", succeeded ? 1.0 : c.progress()).bind("r", c.rowsRead()).bind("a", c.rowsAccepted()).bind("x", c.rowsRejected())
                 .bind("errors", errorsJson).bind("report", reportJson).bind("now", now())
                 .execute()) == 1;

@@ -32,8 +32,8 @@ public final class LoadingsFactors {
             if (v == null) {
                 throw new NoSuchElementException("No factor '" + name + "'; GET /v1/factors lists the factors.");
             }
-            if (!"ready".equals(v.status())) {
-                throw new IllegalStateException("Factor '" + name + "' version " + v.version() + " is " + v.status()
+            if (v.status() != VersionStatus.READY) {
+                throw new IllegalStateException("Factor '" + name + "' version " + v.version() + " is " + v.status().wireName()
                         + ", so it has no series to regress on yet; wait for its build job or fix its definition.");
             }
             versions.add(v);

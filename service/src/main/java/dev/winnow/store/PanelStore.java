@@ -102,12 +102,21 @@ public final class PanelStore {
 
     /** The panel's security dictionary; new codes get the next ids and are recorded against the staging upload. */
     public SecurityDictionary securityDictionary(long panelId, long uploadId) {
+        return dictionary(panelId, uploadId, false);
+    }
+
+    /** As {@link #securityDictionary}, writing new codes in batches: call {@link SecurityDictionary#flush} before the commit. */
+    public SecurityDictionary batchedSecurityDictionary(long panelId, long uploadId) {
+        return dictionary(panelId, uploadId, true);
+    }
+
+    private SecurityDictionary dictionary(long panelId, long uploadId, boolean batched) {
         Map<String, Integer> ids = new HashMap<>();
         jdbi.useHandle(h -> h.createQuery("SELECT code, security_id FROM panel_securities WHERE panel_id = :p")
                 .bind("p", panelId)
                 .map((rs, ctx) -> Map.entry(rs.getString(1), rs.getInt(2)))
                 .forEach(e -> ids.put(e.getKey(), e.getValue())));
-        return new SecurityDictionary(jdbi, panelId, uploadId, ids);
+        return new SecurityDictionary(jdbi, panelId, uploadId, ids, batched);
     }
 
     /** Codes by security id, for responses that name securities. */
@@ -223,29 +232,41 @@ public final class PanelStore {
     }
 
     /**
-     * The columns a reader needs besides the ids, returns and market caps every slice holds: a study that reads two
-     * columns of a wide panel decodes only those ({@link CrossSectionCodec#decode(LocalDate, byte[], Columns)}).
+     * The visible cross-sections at consecutive grid dates (ascending, from {@link #dates}) in one query, decoding only
+     * the extra columns {@code columns} accepts; a date without a visible slice gets an empty cross-section.
      */
-    public record Columns(java.util.Set<String> numbers, java.util.Set<String> labels) {
-        public Columns {
-            numbers = java.util.Set.copyOf(numbers);
-            labels = java.util.Set.copyOf(labels);
+    public List<CrossSection> slices(long panelId, List<LocalDate> gridDates, java.util.function.Predicate<String> columns) {
+        if (gridDates.isEmpty()) {
+            return List.of();
         }
+        Map<LocalDate, byte[]> payloads = new HashMap<>();
+        jdbi.useHandle(h -> h.createQuery("SELECT p.slice_date, p.payload FROM slice_payloads p JOIN uploads u ON u.id = p.upload_id "
+                        + "AND u.state = 'committed' WHERE p.panel_id = :p AND p.slice_date >= :from AND p.slice_date <= :to")
+                .bind("p", panelId).bind("from", gridDates.get(0)).bind("to", gridDates.get(gridDates.size() - 1))
+                .map((rs, ctx) -> Map.entry(rs.getObject(1, LocalDate.class), rs.getBytes(2)))
+                .forEach(e -> payloads.put(e.getKey(), e.getValue())));
+        List<CrossSection> out = new ArrayList<>(gridDates.size());
+        for (LocalDate date : gridDates) {
+            byte[] payload = payloads.remove(date);
+            out.add(payload == null ? new CrossSection(date, new int[0], new double[0], new double[0], Map.of(), Map.of())
+                    : CrossSectionCodec.decode(date, payload, columns));
+        }
+        return out;
+    }
+
+    /** Stages the slices of an upload from a background thread, in batches (see {@link SliceStager}). */
+    public SliceStager stager(long panelId, long uploadId) {
+        return new SliceStager(jdbi, panelId, uploadId);
     }
 
     /** The visible cross-section at a date, or an empty one when the panel has no rows there. */
     public CrossSection slice(long panelId, LocalDate date) {
-        return slice(panelId, date, null);
-    }
-
-    /** The same with only the given columns decoded (every column when {@code columns} is null). */
-    public CrossSection slice(long panelId, LocalDate date, Columns columns) {
         return jdbi.withHandle(h -> h.createQuery("SELECT p.payload FROM slice_payloads p JOIN uploads u ON u.id = p.upload_id "
                         + "AND u.state = 'committed' WHERE p.panel_id = :p AND p.slice_date = :d")
                 .bind("p", panelId).bind("d", date)
                 .map((rs, ctx) -> rs.getBytes(1))
                 .findOne()
-                .map(bytes -> CrossSectionCodec.decode(date, bytes, columns))
+                .map(bytes -> CrossSectionCodec.decode(date, bytes))
                 .orElseGet(() -> new CrossSection(date, new int[0], new double[0], new double[0], Map.of(), Map.of())));
     }
 }

@@ -85,6 +85,14 @@ final class ChildService implements AutoCloseable {
         return null;
     }
 
+    /** Sends the process a signal by name ("STOP", "CONT"): stopped, it is alive to the operating system but silent. */
+    void signal(String name) throws Exception {
+        Process kill = new ProcessBuilder("kill", "-" + name, String.valueOf(process.pid())).inheritIO().start();
+        if (kill.waitFor() != 0) {
+            fail("kill -" + name + " " + process.pid() + " failed");
+        }
+    }
+
     static String jobOf(HttpResponse<String> accepted) throws IOException {
         return JSON.readTree(accepted.body()).path("job").asText();
     }

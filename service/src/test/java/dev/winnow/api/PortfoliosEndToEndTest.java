@@ -32,11 +32,20 @@ class PortfoliosEndToEndTest {
         expected = CrossSectionEndToEndTest.readJson("xsection_expected.json").get("portfolios");
         JsonNode job = server.upload("/v1/panels/xs/uploads", CrossSectionEndToEndTest.readText("xsection_panel.csv"));
         assertEquals("succeeded", job.path("state").asText(), job.toString());
-        for (Iterator<Map.Entry<String, JsonNode>> it = expected.fields(); it.hasNext(); ) {
-            Map.Entry<String, JsonNode> e = it.next();
-            ObjectNode def = ((ObjectNode) e.getValue().get("definition")).deepCopy();
+        List<String> names = new ArrayList<>();
+        expected.fieldNames().forEachRemaining(names::add);
+        defineReferenceFactors(server, expected, names);
+    }
+
+    /**
+     * Defines and builds on panel "xs" each named factor of the fixture's reference definitions, and an external
+     * factor "cash" (which has no portfolios).
+     */
+    static void defineReferenceFactors(TestServer server, JsonNode expected, List<String> names) {
+        for (String name : names) {
+            ObjectNode def = ((ObjectNode) expected.get(name).get("definition")).deepCopy();
             def.put("panel", "xs").put("theme", "test").put("rationale", "reference portfolios");
-            TestServer.Reply put = server.putJson("/v1/factors/" + e.getKey(), def.toString(), ADMIN);
+            TestServer.Reply put = server.putJson("/v1/factors/" + name, def.toString(), ADMIN);
             assertEquals(202, put.status(), put.body());
             JsonNode built = server.awaitJob(put.json().path("job").asText());
             assertEquals("succeeded", built.path("state").asText(), built.toString());

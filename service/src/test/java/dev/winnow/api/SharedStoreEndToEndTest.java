@@ -155,19 +155,14 @@ class SharedStoreEndToEndTest {
         String token = created.json().path("token").asText();
         assertEquals(200, status(other, "/v1/panels", token), "a token made on one instance works on another at once");
         assertEquals(200, status(third, "/v1/panels", token));
+        long asked = System.nanoTime();
         assertEquals(204, server.delete("/v1/tokens/dashboards", ADMIN).status());
-        long revoked = System.nanoTime();
+        long answered = System.nanoTime();
+        // the 204 comes only once every live instance has acknowledged the new token generation: no retries here
         assertEquals(401, server.get("/v1/panels", token).status(), "refused at once by the instance that revoked it");
-        // the others hear of it through the change feed (LISTEN/NOTIFY): within one notification's delivery
-        for (Winnow instance : List.of(other, third)) {
-            long deadline = revoked + 2_000_000_000L;
-            int answer;
-            while ((answer = status(instance, "/v1/panels", token)) != 401 && System.nanoTime() < deadline) {
-                Thread.sleep(1);
-            }
-            assertEquals(401, answer, "revoked on one instance, refused by every other");
-        }
-        System.out.printf("revocation seen by every instance %.1f ms after the 204%n", (System.nanoTime() - revoked) / 1e6);
+        assertEquals(401, status(other, "/v1/panels", token), "refused at once by another API instance");
+        assertEquals(401, status(third, "/v1/panels", token), "refused at once by an instance of role all");
+        System.out.printf("revocation acknowledged by every instance within its DELETE: %.1f ms%n", (answered - asked) / 1e6);
     }
 
     @Test

@@ -21,7 +21,7 @@ class OrphanedBuildRecoveryTest {
             long panelId = new PanelStore(server.winnow().jdbi()).find("p").orElseThrow().id();
             // what a crash right after the definition's commit leaves behind: the version, and no job
             new FactorStore(server.winnow().jdbi()).define("orphan",
-                    "{\"method\":\"sort\",\"panel\":\"p\",\"signal\":\"score\",\"buckets\":2}", "sort", panelId);
+                    "{\"method\":\"sort\",\"panel\":\"p\",\"signal\":\"score\",\"buckets\":2}", dev.winnow.construct.FactorDefinition.Method.SORT, panelId);
             assertEquals("building", server.get("/v1/factors/orphan").json().path("status").asText());
 
             // and a body spooled by an upload that died before its job was queued (never acknowledged)

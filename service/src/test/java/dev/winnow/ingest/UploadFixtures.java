@@ -41,12 +41,17 @@ final class UploadFixtures {
     }
 
     /** Collects what the parser sends. */
-    static final class CollectingSink implements CrossSectionSink {
+    static class CollectingSink implements CrossSectionSink {
         final List<CrossSection> received = new ArrayList<>();
 
         @Override
         public void accept(CrossSection crossSection) {
             received.add(crossSection);
+        }
+
+        @Override
+        public void discardAccepted() {
+            received.clear();
         }
     }
 

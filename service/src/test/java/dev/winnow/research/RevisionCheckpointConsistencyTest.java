@@ -434,7 +434,7 @@ class RevisionCheckpointConsistencyTest {
         }
 
         void defineRiskFree(ReturnSeries rf) {
-            FactorVersionRecord v = factors.define("rf", "{\"method\":\"external\"}", "external", null).version();
+            FactorVersionRecord v = factors.define("rf", "{\"method\":\"external\"}", FactorDefinition.Method.EXTERNAL, null).version();
             List<StoredReturn> rows = new ArrayList<>();
             for (int i = 0; i < rf.size(); i++) {
                 rows.add(external(rf, i));
@@ -444,7 +444,7 @@ class RevisionCheckpointConsistencyTest {
 
         /** Stages and commits the cross-sections; security i gets code CO-i, so store ids equal the sections' ids. */
         void upload(List<CrossSection> sections, String mode) {
-            long uploadId = panels.beginUpload(panelId, jobs.enqueue("panel_upload", "{}"), mode);
+            long uploadId = panels.beginUpload(panelId, jobs.enqueue(dev.winnow.store.JobKind.PANEL_UPLOAD, "{}"), mode);
             SecurityDictionary dictionary = panels.securityDictionary(panelId, uploadId);
             TreeSet<Integer> ids = new TreeSet<>();
             sections.forEach(cs -> Arrays.stream(cs.securityIds()).forEach(ids::add));
@@ -457,7 +457,7 @@ class RevisionCheckpointConsistencyTest {
 
         void buildAll() {
             DEFINITIONS.forEach((name, def) -> {
-                factors.define(name, DefinitionJson.toCanonicalString(def), DefinitionJson.wire(def.method()), panelId);
+                factors.define(name, DefinitionJson.toCanonicalString(def), def.method(), panelId);
                 try {
                     builds.rebuild(current(name));
                 } catch (FactorBuilds.FactorBuildException e) {

@@ -123,7 +123,7 @@ public final class LoadingsTestStore implements AutoCloseable {
     /** Uploads slices (security codes from {@link #code}) and commits them; returns the panel id. */
     public long upload(String panel, int securities, List<CrossSection> slices, boolean newColumn) {
         long panelId = panels.createPanelIfAbsent(panel);
-        long jobId = jobs.enqueue("panel_upload", "{}");
+        long jobId = jobs.enqueue(dev.winnow.store.JobKind.PANEL_UPLOAD, "{}");
         long uploadId = panels.beginUpload(panelId, jobId, "append");
         SecurityDictionary dictionary = panels.securityDictionary(panelId, uploadId);
         for (int i = 1; i <= securities; i++) {
@@ -140,7 +140,7 @@ public final class LoadingsTestStore implements AutoCloseable {
 
     /** Defines a factor and stores a build of the given returns (NaN leaves a date out); returns its name. */
     public String factor(String name, List<LocalDate> dates, double[] values) {
-        FactorStore.FactorVersionRecord v = factors.define(name, "{\"test\":\"" + name + "\"}", "series", null).version();
+        FactorStore.FactorVersionRecord v = factors.define(name, "{\"test\":\"" + name + "\"}", dev.winnow.construct.FactorDefinition.Method.EXTERNAL, null).version();
         factors.saveBuild(v.factorId(), v.version(), returns(dates, values, 0), List.of(), null, "{}", false, null);
         return name;
     }

@@ -22,7 +22,7 @@ import org.junit.jupiter.api.Test;
 class DemoScenarioFactorsFileTest {
 
     private static final Set<String> FIELDS = Set.of("panel", "method", "signal", "direction", "buckets", "weighting",
-            "lag", "rebalance", "rebalance_month", "output", "risk_free", "cost_bps", "theme", "rationale", "found_on");
+            "lag", "rebalance", "rebalance_month", "output", "risk_free", "cost_bps", "theme", "rationale", "found_on", "role");
     private static final Set<String> METHODS = Set.of("sort", "size_sort", "market", "external");
 
     @Test
@@ -32,6 +32,7 @@ class DemoScenarioFactorsFileTest {
         assertTrue(factors.isArray() && factors.size() >= 15, "expected an array of at least 15 factors");
         Set<String> names = new HashSet<>();
         int valueVariants = 0;
+        Set<String> inputs = new HashSet<>();
         for (JsonNode factor : factors) {
             String name = factor.path("name").asText();
             assertTrue(names.add(name), "duplicate or missing name: " + name);
@@ -61,7 +62,12 @@ class DemoScenarioFactorsFileTest {
             if (definition.path("theme").asText().equals("value")) {
                 valueVariants++;
             }
+            if (definition.path("role").asText().equals("input")) {
+                inputs.add(name);
+            }
         }
+        // the risk-free rate and the inflation surprise are what premia are measured against or regressed on
+        assertEquals(Set.of("inflation", "risk_free"), inputs);
         assertTrue(names.containsAll(List.of("market", "size", "value", "momentum", "quality", "investment",
                 "term", "credit", "inflation", "risk_free")), names.toString());
         assertTrue(valueVariants >= 3, "value and at least two variants share the theme value");

@@ -1,0 +1,570 @@
+package dev.winnow.ingest;
+
+import dev.winnow.construct.CrossSection;
+import dev.winnow.store.Limits;
+
+import java.io.ByteArrayInputStream;
+import java.io.EOFException;
+import java.io.IOException;
+import java.io.InputStream;
+import java.time.LocalDate;
+import java.util.ArrayDeque;
+import java.util.Arrays;
+import java.util.Deque;
+import java.util.HashMap;
+import java.util.Map;
+import java.util.concurrent.ArrayBlockingQueue;
+import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.ExecutionException;
+import java.util.concurrent.ExecutorService;
+import java.util.concurrent.Executors;
+import java.util.concurrent.Future;
+import java.util.zip.ZipException;
+
+/**
+ * The one-pass parse of a panel upload whose dates come in ascending blocks (every date's rows together, the usual
+ * export order), on all cores: a reader cuts the (decompressed) file into chunks of about {@value #CHUNK_BYTES} bytes
+ * at line breaks; worker threads check and read each chunk with the same rules as the first pass
+ * ({@link PanelFirstPass#scanChunk}); this thread takes the chunks back in file order, adds their errors (with file
+ * line numbers) and counts to the whole-file state, maps security codes to ids in order of first appearance, and hands
+ * each date's cross-section to the sink as soon as the date's block ends, while the file is still being read.
+ * Memory stays bounded: a few chunks in flight and one date's rows.
+ *
+ * <p>The result equals the two-pass parse's. Where this path cannot guarantee that, it gives up with
+ * {@link Unsuitable} before the result is formed, and the caller discards what the sink received and parses the file
+ * in two passes: a date that comes back after another date or out of ascending order, a new column whose type the
+ * first chunk did not tell (numbers there, text later, or no value at all), a header problem, a chunk boundary inside
+ * a quoted field, an unreadable gzip stream, a record longer than the chunk limit, or a date with more rows than
+ * {@link Limits#MAX_ROWS_PER_DATE}.
+ *
+ * <p>New column types are decided by the first chunk: a column with any text there is a label column; otherwise a
+ * number column, which the whole file must confirm. Once any error is found no more cross-sections are formed (the
+ * upload is rejected), but every chunk is still checked so the first 100 errors in file order and the total are
+ * reported.
+ */
+final class ChunkedPanelParse {
+
+    /** Bytes per chunk: large enough that each chunk holds many dates' rows, small enough to keep memory low. */
+    static final int CHUNK_BYTES = 1 << 20;
+    /** A single record may not exceed this; longer lines are left to the two-pass parse to report. */
+    private static final int MAX_CHUNK_BYTES = CsvTokenizer.MAX_RECORD_BYTES + CHUNK_BYTES;
+    private static final Object END = new Object();
+
+    /** The file does not suit the one-pass path; the two-pass parse must run instead. */
+    static final class Unsuitable extends Exception {
+        Unsuitable(String why) {
+            super(why, null, false, false);
+        }
+    }
+
+    /** What the parse produced, for {@link PanelUploadParser}'s result. */
+    record Outcome(PanelFirstPass whole, int distinctSecurities, long duplicateRows, long rowsEmitted) {
+    }
+
+    private final PanelUpload upload;
+    private final ErrorCollector errors;
+    private final ProgressMeter meter;
+    private final Map<String, Integer> idsByCode;
+    private final SecurityIds securityIds;
+    private final CrossSectionSink sink;
+    private final int chunkBytes;
+    private final int workers;
+
+    private PanelLayout layout;
+    private PanelFirstPass whole;
+    /** Per extra column (header order): read as numbers, as labels (both for the first chunk's new columns). */
+    private boolean[] numberColumn;
+    private boolean[] labelColumn;
+    private int[] numberSlot;
+    private int[] labelSlot;
+    private String[] numberNames;
+    private String[] labelNames;
+
+    private long lineOffset;
+    private long rowOffset;
+    private DateBlock block;
+    private int lastBlockRows = 16;
+    private LocalDate blockDate;
+    private long rowsEmitted;
+    private long duplicateRows;
+    /** Duplicate (date, security) rows, reported only when the file has no other problem (as the second pass does). */
+    private final ErrorCollector duplicates = new ErrorCollector();
+    private boolean emitting = true;
+    private int distinctSecurities = -1;
+
+    ChunkedPanelParse(PanelUpload upload, ErrorCollector errors, ProgressMeter meter, Map<String, Integer> idsByCode,
+                      SecurityIds securityIds, CrossSectionSink sink, int chunkBytes, int workers) {
+        this.upload = upload;
+        this.errors = errors;
+        this.meter = meter;
+        this.idsByCode = idsByCode;
+        this.securityIds = securityIds;
+        this.sink = sink;
+        this.chunkBytes = chunkBytes;
+        this.workers = workers;
+    }
+
+    /** One chunk of the decompressed file, cut after a line break (the last one may end anywhere). */
+    private record Chunk(byte[] bytes, int from, int length, boolean last) {
+    }
+
+    Outcome run() throws IOException, SinkException, Unsuitable, InterruptedException {
+        BlockingQueue<Object> chunks = new ArrayBlockingQueue<>(workers);
+        ExecutorService pool = Executors.newFixedThreadPool(workers, r -> {
+            Thread t = new Thread(r, "upload-parse");
+            t.setDaemon(true);
+            return t;
+        });
+        try (InputStream in = open()) {
+            Thread reader = new Thread(() -> read(in, chunks), "upload-read");
+            reader.setDaemon(true);
+            reader.start();
+            try {
+                parse(chunks, pool);
+            } finally {
+                reader.interrupt();
+                in.close();
+                reader.join(10_000);
+            }
+        } finally {
+            pool.shutdownNow();
+        }
+        return new Outcome(whole, distinctSecurities, duplicateRows, rowsEmitted);
+    }
+
+    private InputStream open() throws IOException, Unsuitable {
+        try {
+            return meter.open(upload.file(), upload.gzip(), 0, 1.0);
+        } catch (ZipException | EOFException notGzip) {
+            throw new Unsuitable("not gzip data");
+        }
+    }
+
+    private void parse(BlockingQueue<Object> chunks, ExecutorService pool)
+            throws IOException, SinkException, Unsuitable, InterruptedException {
+        Chunk first = next(chunks);
+        if (first == END_CHUNK) {
+            throw new Unsuitable("empty upload");
+        }
+        CsvTokenizer csv = new CsvTokenizer(new ByteArrayInputStream(first.bytes(), first.from(), first.length()));
+        ErrorCollector headerErrors = new ErrorCollector();
+        HeaderRow header = HeaderRow.read(csv, headerErrors, PanelLayout.REQUIRED_COLUMNS);
+        if (header == null || (layout = PanelLayout.of(header, headerErrors)) == null) {
+            throw new Unsuitable("header problem");
+        }
+        long headerEnd = csv.position();
+        if (headerEnd > first.length() || (headerEnd == first.length() && !first.last())) {
+            throw new Unsuitable("header longer than a chunk");
+        }
+        whole = new PanelFirstPass(upload, errors, meter);
+        whole.startChunked(layout);
+        lineOffset = csv.nextLine() - 1;
+        planColumns(null);
+        ChunkRows rows = scan(new Chunk(first.bytes(), first.from() + (int) headerEnd, first.length() - (int) headerEnd, first.last()));
+        planColumns(rows.pass.extras);
+        add(rows);
+
+        Deque<Future<ChunkRows>> inFlight = new ArrayDeque<>();
+        boolean end = first.last();
+        while (true) {
+            while (!end && inFlight.size() < workers) {
+                Object item = inFlight.isEmpty() ? chunks.take() : chunks.poll();
+                if (item == null) {
+                    break;
+                }
+                Chunk chunk = unwrap(item);
+                if (chunk == END_CHUNK) {
+                    end = true;
+                    break;
+                }
+                inFlight.add(pool.submit(() -> scan(chunk)));
+                end = chunk.last();
+            }
+            if (inFlight.isEmpty()) {
+                break;
+            }
+            add(await(inFlight.removeFirst()));
+        }
+        if (errors.isEmpty()) {
+            finishBlock();
+        }
+        whole.settle();
+        if (errors.isEmpty()) {
+            distinctSecurities = idsByCode.size();
+            for (UploadError e : duplicates.errors()) {
+                errors.add(e.line(), e.column(), e.message());
+            }
+            errors.countOnly(duplicates.total() - duplicates.errors().size());
+        } else {
+            duplicateRows = 0;
+        }
+        if (rowsTotal() == 0) {
+            throw new Unsuitable("no data rows");
+        }
+        for (int i = 0; i < whole.extras.length; i++) {
+            ExtraColumn column = whole.extras[i];
+            if (column.existingType == null && (column.finalType() == ColumnType.NUMBER) != (numberSlot[i] >= 0)) {
+                throw new Unsuitable("column " + column.name + " changed type after the first chunk");
+            }
+        }
+    }
+
+    private long rowsTotal() {
+        return whole.rowsRead;
+    }
+
+    private static final Chunk END_CHUNK = new Chunk(new byte[0], 0, 0, true);
+
+    private static Chunk next(BlockingQueue<Object> chunks) throws IOException, Unsuitable, InterruptedException {
+        return unwrap(chunks.take());
+    }
+
+    private static Chunk unwrap(Object item) throws IOException, Unsuitable {
+        if (item == END) {
+            return END_CHUNK;
+        }
+        if (item instanceof Throwable failure) {
+            throw rethrown(failure);
+        }
+        return (Chunk) item;
+    }
+
+    private static ChunkRows await(Future<ChunkRows> future) throws IOException, Unsuitable, InterruptedException {
+        try {
+            return future.get();
+        } catch (ExecutionException e) {
+            throw rethrown(e.getCause());
+        }
+    }
+
+    /** Throws a reader's or worker's failure on this thread as what it is (returns only to satisfy the compiler). */
+    private static IllegalStateException rethrown(Throwable failure) throws IOException, Unsuitable {
+        if (failure instanceof Unsuitable u) {
+            throw u;
+        }
+        if (failure instanceof IOException io) {
+            throw io;
+        }
+        if (failure instanceof RuntimeException r) {
+            throw r;
+        }
+        if (failure instanceof Error err) {
+            throw err;
+        }
+        return new IllegalStateException(failure);
+    }
+
+    /** The reader: cuts the stream into chunks after their last line break and queues them, then END. */
+    private void read(InputStream in, BlockingQueue<Object> chunks) {
+        try {
+            byte[] buf = new byte[chunkBytes];
+            int filled = 0;
+            while (true) {
+                int n = in.read(buf, filled, buf.length - filled);
+                boolean eof = n < 0;
+                if (n > 0) {
+                    filled += n;
+                    if (filled < buf.length) {
+                        continue;
+                    }
+                }
+                if (eof) {
+                    chunks.put(filled > 0 ? new Chunk(buf, 0, filled, true) : END);
+                    if (filled > 0) {
+                        chunks.put(END);
+                    }
+                    return;
+                }
+                int cut = lastLineBreak(buf, filled);
+                if (cut < 0) {
+                    if (buf.length >= MAX_CHUNK_BYTES) {
+                        chunks.put(new Unsuitable("a record longer than a chunk"));
+                        return;
+                    }
+                    buf = Arrays.copyOf(buf, buf.length * 2);
+                    continue;
+                }
+                byte[] next = new byte[Math.max(chunkBytes, filled - cut)];
+                System.arraycopy(buf, cut, next, 0, filled - cut);
+                chunks.put(new Chunk(buf, 0, cut, false));
+                buf = next;
+                filled = filled - cut;
+            }
+        } catch (InterruptedException stop) {
+            Thread.currentThread().interrupt();
+        } catch (ZipException | EOFException badGzip) {
+            offer(chunks, upload.gzip() ? new Unsuitable("unreadable gzip stream") : badGzip);
+        } catch (IOException | RuntimeException | Error e) {
+            // whatever ends the reader, the parsing thread is told: it never waits for a chunk that cannot come
+            offer(chunks, e);
+        }
+    }
+
+    private static void offer(BlockingQueue<Object> chunks, Object failure) {
+        try {
+            chunks.put(failure);
+        } catch (InterruptedException stop) {
+            Thread.currentThread().interrupt();
+        }
+    }
+
+    /** The length of the chunk up to and including its last LF, or -1 when it has none. */
+    private static int lastLineBreak(byte[] b, int filled) {
+        for (int i = filled - 1; i >= 0; i--) {
+            if (b[i] == '\n') {
+                return i + 1;
+            }
+        }
+        return -1;
+    }
+
+    /**
+     * Which extra columns to read as numbers and which as labels: by schema for existing columns; for new ones, both
+     * while {@code firstChunk} is null (the first chunk), then numbers unless the first chunk saw text.
+     */
+    private void planColumns(ExtraColumn[] firstChunk) {
+        int n = layout.extraFields.length;
+        numberColumn = new boolean[n];
+        labelColumn = new boolean[n];
+        numberSlot = new int[n];
+        labelSlot = new int[n];
+        int numbers = 0;
+        int labels = 0;
+        java.util.List<String> numberList = new java.util.ArrayList<>();
+        java.util.List<String> labelList = new java.util.ArrayList<>();
+        for (int i = 0; i < n; i++) {
+            String name = layout.extraNames[i];
+            ColumnType existing = upload.existingSchema().get(name);
+            ColumnType type = existing != null ? existing
+                    : firstChunk == null ? null : firstChunk[i].sawText ? ColumnType.LABEL : ColumnType.NUMBER;
+            numberColumn[i] = type != ColumnType.LABEL;
+            labelColumn[i] = type != ColumnType.NUMBER;
+            numberSlot[i] = type == ColumnType.NUMBER ? numbers++ : -1;
+            labelSlot[i] = type == ColumnType.LABEL ? labels++ : -1;
+            if (type == ColumnType.NUMBER) {
+                numberList.add(name);
+            } else if (type == ColumnType.LABEL) {
+                labelList.add(name);
+            }
+        }
+        numberNames = numberList.toArray(String[]::new);
+        labelNames = labelList.toArray(String[]::new);
+    }
+
+    /** A chunk's rows without a problem, column by column, and its pass state. Built by a worker thread. */
+    private final class ChunkRows implements PanelFirstPass.RowListener {
+        final PanelFirstPass pass;
+        final ErrorCollector chunkErrors = new ErrorCollector();
+        final boolean[] numbers = numberColumn.clone();
+        final boolean[] labels = labelColumn.clone();
+        final TextCache codes = new TextCache(Integer.MAX_VALUE);
+        final TextCache[] labelTexts = new TextCache[labels.length];
+        final LocalDate[] dateList = new LocalDate[64];
+        int dateCount;
+        long lineBreaks;
+        int n;
+        int[] lines;
+        int[] dateOf;
+        int[] code;
+        double[] returns;
+        double[] caps;
+        double[][] values;
+        int[][] labelCodes;
+
+        ChunkRows(int expectedRows) {
+            pass = new PanelFirstPass(upload, chunkErrors, ProgressMeter.silent());
+            lines = new int[expectedRows];
+            dateOf = new int[expectedRows];
+            code = new int[expectedRows];
+            returns = new double[expectedRows];
+            caps = new double[expectedRows];
+            values = new double[numbers.length][];
+            labelCodes = new int[labels.length][];
+            for (int i = 0; i < numbers.length; i++) {
+                values[i] = numbers[i] ? new double[expectedRows] : null;
+                labelCodes[i] = labels[i] ? new int[expectedRows] : null;
+                labelTexts[i] = labels[i] ? new TextCache(Integer.MAX_VALUE) : null;
+            }
+        }
+
+        @Override
+        public void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] rowNumbers) {
+            if (n == lines.length) {
+                grow();
+            }
+            lines[n] = (int) line;
+            if (dateCount == 0 || dateList[dateCount - 1] != date) {
+                if (dateCount == dateList.length) {
+                    throw new IllegalStateException("too many dates in one chunk");
+                }
+                dateList[dateCount++] = date;
+            }
+            dateOf[n] = dateCount - 1;
+            byte[] b = csv.buffer();
+            int field = layout.securityField;
+            int s = Cells.trimStart(b, csv.start(field), csv.end(field));
+            code[n] = codes.indexOf(b, s, Cells.trimEnd(b, s, csv.end(field)));
+            returns[n] = ret;
+            caps[n] = cap;
+            for (int i = 0; i < numbers.length; i++) {
+                if (numbers[i]) {
+                    values[i][n] = rowNumbers[i];
+                }
+                if (labels[i]) {
+                    int f = layout.extraFields[i];
+                    int ls = Cells.trimStart(b, csv.start(f), csv.end(f));
+                    int le = Cells.trimEnd(b, ls, csv.end(f));
+                    labelCodes[i][n] = ls == le ? -1 : labelTexts[i].indexOf(b, ls, le);
+                }
+            }
+            n++;
+        }
+
+        private void grow() {
+            int capacity = Math.max(1024, n * 2);
+            lines = Arrays.copyOf(lines, capacity);
+            dateOf = Arrays.copyOf(dateOf, capacity);
+            code = Arrays.copyOf(code, capacity);
+            returns = Arrays.copyOf(returns, capacity);
+            caps = Arrays.copyOf(caps, capacity);
+            for (int i = 0; i < numbers.length; i++) {
+                if (values[i] != null) {
+                    values[i] = Arrays.copyOf(values[i], capacity);
+                }
+                if (labelCodes[i] != null) {
+                    labelCodes[i] = Arrays.copyOf(labelCodes[i], capacity);
+                }
+            }
+        }
+    }
+
+    /** Checks and reads one chunk (any thread). A date that changes more often than 64 times a chunk gives up. */
+    private ChunkRows scan(Chunk chunk) throws IOException, Unsuitable {
+        ChunkRows rows = new ChunkRows(Math.max(16, chunk.length() / 48));
+        CsvTokenizer csv = new CsvTokenizer(new ByteArrayInputStream(chunk.bytes(), chunk.from(), chunk.length()));
+        try {
+            rows.pass.scanChunk(csv, layout, rows);
+        } catch (IllegalStateException tooManyDates) {
+            throw new Unsuitable(tooManyDates.getMessage());
+        } catch (CsvTokenizer.RecordTooLongException tooLong) {
+            throw new Unsuitable("a record longer than the limit");
+        }
+        if (csv.unterminatedQuote() && !chunk.last()) {
+            throw new Unsuitable("a chunk boundary inside a quoted field");
+        }
+        rows.lineBreaks = csv.nextLine() - 1;
+        return rows;
+    }
+
+    /** Adds a chunk, in file order: errors and counts always, its rows while the upload has no error. */
+    private void add(ChunkRows rows) throws SinkException, Unsuitable, IOException {
+        whole.mergeChunk(rows.pass, rows.chunkErrors, lineOffset, rowOffset);
+        if (errors.isEmpty()) {
+            assemble(rows);
+        }
+        lineOffset += rows.lineBreaks;
+        rowOffset += rows.pass.rowsRead;
+        meter.report(whole.rowsRead, whole.rowsRejected + duplicateRows, rowsEmitted);
+    }
+
+    private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
+        // a chunk whose dates go back gives up before any of its dates is handed over (most files not in
+        // ascending blocks are found out here, in their first chunk, with nothing staged to discard)
+        for (int d = 0; d < rows.dateCount; d++) {
+            LocalDate previous = d == 0 ? blockDate : rows.dateList[d - 1];
+            if (previous != null && (d == 0 ? rows.dateList[d].isBefore(previous) : !rows.dateList[d].isAfter(previous))) {
+                throw new Unsuitable("dates not in ascending blocks");
+            }
+        }
+        int[] idOf = new int[rows.codes.size()];
+        for (int c = 0; c < idOf.length; c++) {
+            idOf[c] = idFor(rows.codes.textAt(c));
+        }
+        int numberCount = numberNames.length;
+        int labelCount = labelNames.length;
+        for (int r = 0; r < rows.n; r++) {
+            LocalDate date = rows.dateList[rows.dateOf[r]];
+            if (!date.equals(blockDate)) {
+                if (blockDate != null && !date.isAfter(blockDate)) {
+                    throw new Unsuitable("dates not in ascending blocks");
+                }
+                finishBlock();
+                blockDate = date;
+                block = new DateBlock(lastBlockRows, numberCount, labelCount);
+            }
+            if (block.size >= Limits.MAX_ROWS_PER_DATE) {
+                // the two passes report this date (duplicates or its size) within the same bounded memory
+                throw new Unsuitable("a date with more rows than one date may hold");
+            }
+            block.ensureRoom();
+            int k = block.size++;
+            block.ids[k] = idOf[rows.code[r]];
+            block.lines[k] = rows.lines[r] + lineOffset;
+            block.returns[k] = rows.returns[r];
+            block.marketCaps[k] = rows.caps[r];
+            for (int i = 0; i < rows.numbers.length; i++) {
+                if (numberSlot[i] >= 0) {
+                    block.numbers[numberSlot[i]][k] = rows.values[i][r];
+                }
+                if (labelSlot[i] >= 0) {
+                    int labelCode = rows.labelCodes[i][r];
+                    block.labels[labelSlot[i]][k] = labelCode < 0 ? null : rows.labelTexts[i].textAt(labelCode);
+                }
+            }
+        }
+    }
+
+    private int idFor(String code) throws SinkException {
+        Integer id = idsByCode.get(code);
+        if (id == null) {
+            try {
+                id = securityIds.idFor(code);
+            } catch (Exception storeFailure) {
+                throw new SinkException(storeFailure);
+            }
+            idsByCode.put(code, id);
+        }
+        return id;
+    }
+
+    private final Map<Integer, String> codesById = new HashMap<>();
+
+    /**
+     * Forms and hands over the finished date's cross-section, unless a security occurs twice in it; after such a
+     * date nothing more is handed over, but later dates are still checked for duplicates.
+     */
+    private void finishBlock() throws SinkException {
+        if (block == null) {
+            return;
+        }
+        DateBlock done = block;
+        LocalDate date = blockDate;
+        done.trim();
+        CrossSection cs = done.toCrossSection(date, numberNames, labelNames, (securityId, firstLine, line) -> {
+            duplicateRows++;
+            if (duplicates.keeps(line)) {
+                duplicates.add(line, PanelUpload.SECURITY, Messages.duplicateSecurity(codeOf(securityId), date, firstLine));
+            } else {
+                duplicates.countOnly(1);
+            }
+        });
+        block = null;
+        lastBlockRows = done.size;
+        if (cs == null) {
+            emitting = false;
+        }
+        if (!emitting) {
+            return;
+        }
+        try {
+            sink.accept(cs);
+        } catch (Exception storeFailure) {
+            throw new SinkException(storeFailure);
+        }
+        rowsEmitted += cs.size();
+    }
+
+    private String codeOf(int securityId) {
+        return PanelSecondPass.codeOf(idsByCode, codesById, securityId);
+    }
+}

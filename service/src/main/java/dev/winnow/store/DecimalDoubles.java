@@ -1,0 +1,239 @@
+package dev.winnow.store;
+
+/**
+ * Lossless compact form of a column of doubles that were mostly read from short decimals, in about four bytes a value
+ * instead of eight.
+ *
+ * <p>A finite value v is written as a signed integer d and a decimal exponent e with |d| &lt; 2^27 and
+ * -22 &lt;= e &lt;= 22, chosen so that the IEEE 754 quotient d / 10^e (for e &gt;= 0) or the product d * 10^-e (for
+ * e &lt; 0) gives back exactly v's bits. Since d and 10^|e| are then exact doubles, that one correctly rounded
+ * operation yields the double nearest to the decimal d x 10^-e (Clinger 1990, "How to read floating point numbers
+ * accurately", PLDI; the same fast path {@code NumberCell} parses with), so every value parsed from a decimal with up to
+ * eight significant digits (nine when they read below 134217728) is found. The encoder tries the exponents that give
+ * eight and nine significant digits and keeps one only after decoding it and comparing all 64 bits; everything else
+ * (more digits, negative zero, infinities, NaNs other than the canonical missing-value NaN, subnormals) is stored
+ * as its raw bits, so decoding never changes a bit.
+ *
+ * <p>Block layout, after a one-byte mode: {@link #RAW}: n raw 8-byte values. {@link #DECIMAL}: the exponent base
+ * b (one signed byte), the exception count x (4 bytes), n 4-byte words, x raw 8-byte values in row order. A word's top
+ * four bits are a slot: 0..13 for exponent b + slot with the zig-zag form of d in the low 28 bits, 14 for the
+ * missing value (canonical NaN), 15 for the next exception. The base is chosen so that the 14 exponents cover the
+ * most values; the encoder picks whichever mode is smaller.
+ */
+final class DecimalDoubles {
+    static final byte RAW = 0;
+    static final byte DECIMAL = 1;
+
+    private static final int SLOTS = 14;
+    private static final int MISSING_SLOT = 14;
+    private static final int EXCEPTION_SLOT = 15;
+    private static final int MAX_EXPONENT = 22;
+    private static final long SIGNIFICAND_LIMIT = 1L << 27;
+    private static final long CANONICAL_NAN = Double.doubleToRawLongBits(Double.NaN);
+    private static final double LOG10_2 = 0.30102999566398120;
+    private static final double[] POW10 = new double[MAX_EXPONENT + 1];
+    /** 10^k for k = -MAX_EXPONENT-1 .. MAX_EXPONENT+1 at index k + MAX_EXPONENT + 1, nearest doubles (for estimates). */
+    private static final double[] POWERS = new double[2 * MAX_EXPONENT + 3];
+    /** Exponents that cannot be used: a marker in the scratch array. */
+    private static final int NO_EXPONENT = Integer.MIN_VALUE;
+
+    static {
+        double p = 1;
+        for (int i = 0; i <= MAX_EXPONENT; i++) {
+            POW10[i] = p; // exact: 10^22 < 2^53 * 2^22 and 5^22 < 2^53
+            p *= 10;
+        }
+        for (int k = -MAX_EXPONENT - 1; k <= MAX_EXPONENT + 1; k++) {
+            POWERS[k + MAX_EXPONENT + 1] = Double.parseDouble("1e" + k);
+        }
+    }
+
+    private DecimalDoubles() {
+    }
+
+    /** Reusable scratch space of an encoder thread. */
+    static final class Scratch {
+        int[] exponents = new int[0];
+        int[] significands = new int[0];
+
+        void ensure(int n) {
+            if (exponents.length < n) {
+                exponents = new int[n];
+                significands = new int[n];
+            }
+        }
+    }
+
+    /** Appends the block for {@code values[0..n)} to {@code out}. */
+    static void encode(double[] values, int n, ByteSink out, Scratch scratch) {
+        scratch.ensure(n);
+        int[] exponent = scratch.exponents;
+        int[] significand = scratch.significands;
+        int[] histogram = new int[2 * MAX_EXPONENT + 1];
+        for (int i = 0; i < n; i++) {
+            double v = values[i];
+            long bits = Double.doubleToRawLongBits(v);
+            exponent[i] = NO_EXPONENT;
+            if (bits == CANONICAL_NAN) {
+                continue;
+            }
+            if (bits == 0L) {
+                exponent[i] = NO_EXPONENT + 1; // +0.0: any exponent decodes it
+                significand[i] = 0;
+                continue;
+            }
+            double m = Math.abs(v);
+            if (!(m >= Double.MIN_NORMAL) || m == Double.POSITIVE_INFINITY) {
+                continue;
+            }
+            // p = floor(log10 m), from the binary exponent: at most one too low, corrected by one comparison
+            int p = (int) Math.floor(Math.getExponent(m) * LOG10_2);
+            if (p >= -MAX_EXPONENT - 2 && p <= MAX_EXPONENT && m >= POWERS[p + 1 + MAX_EXPONENT + 1]) {
+                p++;
+            }
+            int e = 7 - p;
+            long d = fit(m, e);
+            if (d < 0) {
+                e++;
+                d = fit(m, e);
+                if (d < 0) {
+                    e -= 2;
+                    d = fit(m, e);
+                }
+            }
+            if (d >= 0) {
+                exponent[i] = e;
+                significand[i] = (int) (v < 0 ? -d : d);
+                histogram[e + MAX_EXPONENT]++;
+            }
+        }
+        int base = bestBase(histogram);
+        int exceptions = 0;
+        for (int i = 0; i < n; i++) {
+            int e = exponent[i];
+            if (e == NO_EXPONENT + 1) {
+                continue;
+            }
+            if (e == NO_EXPONENT ? Double.doubleToRawLongBits(values[i]) != CANONICAL_NAN : e < base || e >= base + SLOTS) {
+                exceptions++;
+            }
+        }
+        if (4L * n + 8L * exceptions + 5 >= 8L * n) {
+            out.put(RAW);
+            for (int i = 0; i < n; i++) {
+                out.putLong(Double.doubleToRawLongBits(values[i]));
+            }
+            return;
+        }
+        out.put(DECIMAL);
+        out.put((byte) base);
+        out.putInt(exceptions);
+        for (int i = 0; i < n; i++) {
+            int e = exponent[i];
+            int word;
+            if (e == NO_EXPONENT + 1) {
+                word = 0;
+            } else if (e == NO_EXPONENT) {
+                word = Double.doubleToRawLongBits(values[i]) == CANONICAL_NAN ? MISSING_SLOT << 28 : EXCEPTION_SLOT << 28;
+            } else if (e < base || e >= base + SLOTS) {
+                word = EXCEPTION_SLOT << 28;
+            } else {
+                int s = significand[i];
+                word = ((e - base) << 28) | ((s << 1) ^ (s >> 31));
+            }
+            out.putInt(word);
+        }
+        for (int i = 0; i < n; i++) {
+            int e = exponent[i];
+            boolean exception = e == NO_EXPONENT ? Double.doubleToRawLongBits(values[i]) != CANONICAL_NAN
+                    : e != NO_EXPONENT + 1 && (e < base || e >= base + SLOTS);
+            if (exception) {
+                out.putLong(Double.doubleToRawLongBits(values[i]));
+            }
+        }
+    }
+
+    /** The magnitude d &lt; 2^27 with d at exponent e giving back exactly m, or -1. */
+    private static long fit(double m, int e) {
+        if (e > MAX_EXPONENT || e < -MAX_EXPONENT) {
+            return -1;
+        }
+        double scaled = e >= 0 ? m * POW10[e] : m / POW10[-e];
+        if (!(scaled < SIGNIFICAND_LIMIT)) {
+            return -1;
+        }
+        long d = (long) Math.rint(scaled);
+        double back = e >= 0 ? d / POW10[e] : d * POW10[-e];
+        return back == m ? d : -1;
+    }
+
+    /** The first of 14 consecutive exponents that cover the most values. */
+    private static int bestBase(int[] histogram) {
+        int best = 0;
+        int bestCount = -1;
+        for (int start = 0; start + SLOTS <= histogram.length; start++) {
+            int count = 0;
+            for (int k = start; k < start + SLOTS; k++) {
+                count += histogram[k];
+            }
+            if (count > bestCount) {
+                bestCount = count;
+                best = start;
+            }
+        }
+        return best - MAX_EXPONENT;
+    }
+
+    /** Decodes the block at the reader's position into {@code out[0..n)}, leaving the reader after it. */
+    static void decode(ByteSource in, double[] out, int n) {
+        byte mode = in.get();
+        if (mode == RAW) {
+            for (int i = 0; i < n; i++) {
+                out[i] = Double.longBitsToDouble(in.getLong());
+            }
+            return;
+        }
+        if (mode != DECIMAL) {
+            throw new IllegalStateException("unknown encoding " + mode + " of a number column");
+        }
+        int base = in.get();
+        int exceptions = in.getInt();
+        int wordsAt = in.position();
+        int exceptionAt = wordsAt + 4 * n;
+        double[] divisors = new double[SLOTS];
+        boolean allDivide = base >= 0;
+        for (int s = 0; s < SLOTS; s++) {
+            int e = base + s;
+            divisors[s] = e >= 0 ? POW10[Math.min(e, MAX_EXPONENT)] : POW10[Math.min(-e, MAX_EXPONENT)];
+        }
+        byte[] b = in.array();
+        int at = wordsAt;
+        for (int i = 0; i < n; i++, at += 4) {
+            int word = ((b[at] & 0xff) << 24) | ((b[at + 1] & 0xff) << 16) | ((b[at + 2] & 0xff) << 8) | (b[at + 3] & 0xff);
+            int slot = word >>> 28;
+            if (slot < SLOTS) {
+                int zz = word & 0x0FFFFFFF;
+                double d = (zz >>> 1) ^ -(zz & 1);
+                out[i] = allDivide || base + slot >= 0 ? d / divisors[slot] : d * divisors[slot];
+            } else if (slot == MISSING_SLOT) {
+                out[i] = Double.NaN;
+            } else {
+                out[i] = Double.longBitsToDouble(ByteSource.longAt(b, exceptionAt));
+                exceptionAt += 8;
+            }
+        }
+        in.position(wordsAt + 4 * n + 8 * exceptions);
+    }
+
+    /** Skips the block at the reader's position. */
+    static void skip(ByteSource in, int n) {
+        byte mode = in.get();
+        if (mode == RAW) {
+            in.position(in.position() + 8 * n);
+            return;
+        }
+        in.get();
+        int exceptions = in.getInt();
+        in.position(in.position() + 4 * n + 8 * exceptions);
+    }
+}
