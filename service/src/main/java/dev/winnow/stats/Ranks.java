@@ -113,36 +113,12 @@ public final class Ranks {
      * their own. {@code distinct} ({@link #distinct}) says there are no ties, and then each rank is a count.
      */
     static void ranksAmong(int[] order, double[] values, boolean distinct, int[] common, double[] out) {
-        if (distinct) {
-            // no ties: each common value's rank is one more than the common values before it (assigned + (1 + 1) / 2)
-            int assigned = 0;
-            for (int i : order) {
-                int u = common[i];
-                if (u >= 0) {
-                    out[u] = ++assigned;
-                }
+        int[] doubled = new int[out.length];
+        doubledRanksAmong(order, values, distinct, common, doubled);
+        for (int u : common) {
+            if (u >= 0) {
+                out[u] = doubled[u] / 2.0; // exact: an average rank is a whole number or a half
             }
-            return;
-        }
-        int assigned = 0;
-        int k = 0;
-        while (k < order.length) {
-            double value = values[order[k]];
-            int end = k;
-            int kept = 0;
-            while (end < order.length && values[order[end]] == value) {
-                kept += common[order[end]] >= 0 ? 1 : 0;
-                end++;
-            }
-            double averageRank = assigned + (kept + 1) / 2.0;
-            for (int m = k; m < end; m++) {
-                int u = common[order[m]];
-                if (u >= 0) {
-                    out[u] = averageRank;
-                }
-            }
-            assigned += kept;
-            k = end;
         }
     }
 
@@ -154,5 +130,41 @@ public final class Ranks {
             }
         }
         return true;
+    }
+
+    /**
+     * {@link #ranksAmong} as whole numbers: twice each average rank, 2 x assigned + kept + 1 (2 x (assigned + 1)
+     * without ties), written to out[common[i]].
+     */
+    static void doubledRanksAmong(int[] order, double[] values, boolean distinct, int[] common, int[] out) {
+        int assigned = 0;
+        if (distinct) {
+            for (int i : order) {
+                int u = common[i];
+                if (u >= 0) {
+                    out[u] = 2 * ++assigned;
+                }
+            }
+            return;
+        }
+        int k = 0;
+        while (k < order.length) {
+            double value = values[order[k]];
+            int end = k;
+            int kept = 0;
+            while (end < order.length && values[order[end]] == value) {
+                kept += common[order[end]] >= 0 ? 1 : 0;
+                end++;
+            }
+            int doubledRank = 2 * assigned + kept + 1;
+            for (int m = k; m < end; m++) {
+                int u = common[order[m]];
+                if (u >= 0) {
+                    out[u] = doubledRank;
+                }
+            }
+            assigned += kept;
+            k = end;
+        }
     }
 }
