@@ -1,5 +1,10 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.annotation.JsonInclude;
+import com.fasterxml.jackson.annotation.JsonProperty;
+import com.fasterxml.jackson.annotation.JsonUnwrapped;
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.research.StoredCosts;
 import dev.winnow.stats.CorrelationMatrix;
@@ -16,10 +21,8 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import io.javalin.http.Context;
 
-import java.util.ArrayList;
-import java.util.LinkedHashMap;
+import java.time.LocalDate;
 import java.util.List;
-import java.util.Map;
 
 /** Summary statistics, drawdowns, rolling significance and correlations over stored series. */
 final class AnalyticsRoutes {
@@ -36,15 +39,11 @@ final class AnalyticsRoutes {
         Integer lags = lagsParam(ctx);
         served.respond(ctx, Responses.dataKey(request.version()), false, () -> {
             SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
-            Map<String, Object> out = new LinkedHashMap<>();
-            out.put("factor", request.version().name());
-            out.put("version", request.version().version());
-            out.put("frequency", resolved.frequency().wireName());
-            out.put("from", resolved.series().date(0));
-            out.put("to", resolved.series().date(resolved.series().size() - 1));
-            out.putAll(summaryFields(SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags)));
-            out.putAll(costFields(request.version(), resolved));
-            return Responses.jsonBody(out);
+            TradingCosts costs = costs(request.version(), resolved);
+            return Responses.jsonBody(new FactorSummary(request.version().name(), request.version().version(), resolved.frequency().wireName(),
+                    resolved.series().date(0), resolved.series().date(resolved.series().size() - 1),
+                    SummaryStatistics.of(resolved.series().values(), resolved.frequency().periodsPerYear(), lags),
+                    costs == null ? null : costs.averageAnnualTurnover(), costs == null ? null : costs.breakEvenCostBps()));
         });
     }
 
@@ -56,24 +55,8 @@ final class AnalyticsRoutes {
         }
         SeriesRequest.Resolved resolved = request.loadNonEmpty(factors);
         DrawdownReport report = Drawdowns.analyze(resolved.series(), top);
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", request.version().name());
-        out.put("version", request.version().version());
-        out.put("frequency", resolved.frequency().wireName());
-        out.put("max_drawdown", report.maxDrawdown());
-        out.put("underwater", Map.of("dates", report.underwaterDates(), "values", report.underwater()));
-        List<Map<String, Object>> episodes = new ArrayList<>();
-        for (var e : report.episodes()) {
-            Map<String, Object> m = new LinkedHashMap<>();
-            m.put("peak", e.peak());
-            m.put("trough", e.trough());
-            m.put("recovery", e.recovery());
-            m.put("depth", e.depth());
-            m.put("duration", e.duration());
-            episodes.add(m);
-        }
-        out.put("episodes", episodes);
-        Json.respond(ctx, out);
+        Json.respond(ctx, new FactorDrawdowns(request.version().name(), request.version().version(), resolved.frequency().wireName(),
+                report.maxDrawdown(), new Underwater(report.underwaterDates(), report.underwater()), report.episodes()));
     }
 
     void significance(Context ctx) {
@@ -96,36 +79,17 @@ final class AnalyticsRoutes {
         }
         int ppy = resolved.frequency().periodsPerYear();
         RollingSignificance rolling = RollingSignificance.compute(series, window, ppy, lags);
-        Map<String, Object> roll = new LinkedHashMap<>();
-        roll.put("window", window);
-        roll.put("lags", rolling.lags());
-        roll.put("dates", rolling.dates());
-        roll.put("mean", rolling.mean());
-        roll.put("t_stat", rolling.tStat());
-        roll.put("nw_t_stat", rolling.nwTStat());
-        roll.put("p_value", rolling.pValue());
-        roll.put("sharpe_annual", rolling.sharpeAnnual());
-        roll.put("threshold", hurdle);
-        roll.put("share_above", rolling.shareAbove(hurdle));
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", request.version().name());
-        out.put("version", request.version().version());
-        out.put("frequency", resolved.frequency().wireName());
-        out.put("summary", summaryFields(SummaryStatistics.of(series.values(), ppy, lags)));
-        out.put("rolling", roll);
-        Json.respond(ctx, out);
+        Rolling roll = new Rolling(window, rolling.lags(), rolling.dates(), rolling.mean(), rolling.tStat(), rolling.nwTStat(),
+                rolling.pValue(), rolling.sharpeAnnual(), hurdle, rolling.shareAbove(hurdle));
+        Json.respond(ctx, new Significance(request.version().name(), request.version().version(), resolved.frequency().wireName(),
+                SummaryStatistics.of(series.values(), ppy, lags), roll));
     }
 
     void correlations(Context ctx) {
         CorrelationRequest request = CorrelationRequest.of(ctx, factors, 2);
         CorrelationMatrix m = Correlations.matrix(request.series(), request.method());
         request.rejectEmptyOverlap(m.observations());
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factors", request.names());
-        out.put("method", request.methodName());
-        out.put("matrix", m.matrix());
-        out.put("observations", m.observations());
-        Json.respond(ctx, out);
+        Json.respond(ctx, new CorrelationAnswer(request.names(), request.methodName(), m.matrix(), m.observations()));
     }
 
     void rollingCorrelation(Context ctx) {
@@ -145,13 +109,7 @@ final class AnalyticsRoutes {
                     + "; choose a smaller window or a wider range.");
         }
         RollingCorrelation rolling = Correlations.rolling(series.get(0), series.get(1), window, request.method());
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factors", names);
-        out.put("method", request.methodName());
-        out.put("window", window);
-        out.put("dates", rolling.dates());
-        out.put("values", rolling.values());
-        Json.respond(ctx, out);
+        Json.respond(ctx, new RollingCorrelationAnswer(names, request.methodName(), window, rolling.dates(), rolling.values()));
     }
 
     static Integer lagsParam(Context ctx) {
@@ -166,37 +124,47 @@ final class AnalyticsRoutes {
         return value == null ? fallback : value;
     }
 
-    static Map<String, Object> summaryFields(Summary s) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("n", s.n());
-        out.put("mean", s.mean());
-        out.put("stdev", s.stdev());
-        out.put("annual_mean", s.annualMean());
-        out.put("annual_volatility", s.annualVolatility());
-        out.put("sharpe_annual", s.sharpeAnnual());
-        out.put("skewness", s.skewness());
-        out.put("kurtosis", s.kurtosis());
-        out.put("best", s.best());
-        out.put("worst", s.worst());
-        out.put("hit_rate", s.hitRate());
-        out.put("t_stat", s.tStat());
-        out.put("nw_t_stat", s.nwTStat());
-        out.put("nw_lags", s.nwLags());
-        out.put("p_value", s.pValue());
-        out.put("max_drawdown", s.maxDrawdown());
-        return out;
-    }
-
-    /** Average annual turnover and break-even cost of the requested stretch, as {@link TradingCosts#of} defines them. */
-    private Map<String, Object> costFields(FactorVersionRecord v, SeriesRequest.Resolved resolved) {
-        Map<String, Object> out = new LinkedHashMap<>();
+    /**
+     * Average annual turnover and break-even cost of the requested stretch, as {@link TradingCosts#of} defines them;
+     * null for an uploaded series, which has no turnover.
+     */
+    private TradingCosts costs(FactorVersionRecord v, SeriesRequest.Resolved resolved) {
         if (v.method() == FactorDefinition.Method.EXTERNAL) {
-            return out;
+            return null;
         }
         ReturnSeries range = resolved.series();
-        TradingCosts costs = StoredCosts.of(factors, v, range.date(0), range.date(range.size() - 1));
-        out.put("average_annual_turnover", costs.averageAnnualTurnover());
-        out.put("break_even_cost_bps", costs.breakEvenCostBps());
-        return out;
+        return StoredCosts.of(factors, v, range.date(0), range.date(range.size() - 1));
+    }
+
+    /**
+     * {@code GET /v1/factors/{f}/summary}: the range, every {@link Summary} statistic at the top level, then the costs
+     * (left out for an uploaded series).
+     */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record FactorSummary(String factor, int version, String frequency, LocalDate from, LocalDate to, @JsonUnwrapped Summary summary,
+                         @JsonInclude(JsonInclude.Include.NON_NULL) Double averageAnnualTurnover,
+                         @JsonInclude(JsonInclude.Include.NON_NULL) Double breakEvenCostBps) {
+    }
+
+    record Underwater(LocalDate[] dates, double[] values) {
+    }
+
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record FactorDrawdowns(String factor, int version, String frequency, double maxDrawdown, Underwater underwater,
+                           List<DrawdownReport.Episode> episodes) {
+    }
+
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record Rolling(int window, int lags, LocalDate[] dates, double[] mean, double[] tStat, @JsonProperty("nw_t_stat") double[] nwTStat, double[] pValue,
+                   double[] sharpeAnnual, double threshold, double shareAbove) {
+    }
+
+    record Significance(String factor, int version, String frequency, Summary summary, Rolling rolling) {
+    }
+
+    record CorrelationAnswer(List<String> factors, String method, double[][] matrix, int[][] observations) {
+    }
+
+    record RollingCorrelationAnswer(List<String> factors, String method, int window, LocalDate[] dates, double[] values) {
     }
 }

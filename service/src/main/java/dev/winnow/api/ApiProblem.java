@@ -7,6 +7,18 @@ import java.util.Map;
  * A client error to be answered as {@code application/problem+json} (RFC 9457). {@code detail} tells the caller what to fix.
  */
 public final class ApiProblem extends RuntimeException {
+    /**
+     * The body of every problem answer (RFC 9457): {@code type} is always {@code about:blank}, {@code instance} the
+     * request's path; {@code errors} (one {@code {"message": ...}} per problem found) only when there is a list.
+     */
+    record Body(String type, String title, int status, String detail, String instance,
+                @com.fasterxml.jackson.annotation.JsonInclude(com.fasterxml.jackson.annotation.JsonInclude.Include.NON_EMPTY)
+                List<Map<String, Object>> errors) {
+        static Body of(String title, int status, String detail, String instance, List<Map<String, Object>> errors) {
+            return new Body("about:blank", title, status, detail, instance, errors);
+        }
+    }
+
     private final int status;
     private final String title;
     private final List<Map<String, Object>> errors;

@@ -35,7 +35,6 @@ import io.javalin.http.HttpResponseException;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
-import java.util.LinkedHashMap;
 import java.util.Map;
 
 /** The HTTP API: every route, the auth check and the error mapping, configured in one upfront block. */
@@ -88,7 +87,7 @@ public final class ApiServer {
         HoldingsRoutes holdings = new HoldingsRoutes(d.factors(), d.holdings());
         FamilyRoutes families = new FamilyRoutes(d.families());
         CrossSectionRoutes crossSection = new CrossSectionRoutes(d.factors(), d.famaMacBeth(), d.modelTests(), d.portfolios(),
-                d.informationCoefficients());
+                d.informationCoefficients(), served);
 
         return Javalin.create(config -> {
             config.jetty.host = host;
@@ -270,16 +269,7 @@ public final class ApiServer {
     }
 
     static void problem(Context ctx, int status, String title, String detail, java.util.List<Map<String, Object>> errors) {
-        Map<String, Object> body = new LinkedHashMap<>();
-        body.put("type", "about:blank");
-        body.put("title", title);
-        body.put("status", status);
-        body.put("detail", detail);
-        body.put("instance", ctx.path());
-        if (!errors.isEmpty()) {
-            body.put("errors", errors);
-        }
-        Json.respond(ctx, status, body);
+        Json.respond(ctx, status, ApiProblem.Body.of(title, status, detail, ctx.path(), errors));
         ctx.contentType(PROBLEM_JSON);
     }
 

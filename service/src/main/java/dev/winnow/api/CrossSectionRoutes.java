@@ -34,9 +34,11 @@ final class CrossSectionRoutes {
     private final ModelTests modelTests;
     private final FactorPortfolios portfolios;
     private final InformationCoefficients informationCoefficients;
+    private final ServedResponses served;
 
     CrossSectionRoutes(FactorStore factors, FamaMacBethStudy famaMacBeth, ModelTests modelTests, FactorPortfolios portfolios,
-                       InformationCoefficients informationCoefficients) {
+                       InformationCoefficients informationCoefficients, ServedResponses served) {
+        this.served = served;
         this.factors = factors;
         this.famaMacBeth = famaMacBeth;
         this.modelTests = modelTests;
@@ -74,30 +76,29 @@ final class CrossSectionRoutes {
         FactorVersionRecord v = FactorLookup.version(ctx, factors, ctx.pathParam("factor"));
         SeriesRequest.Window window = SeriesRequest.Window.of(ctx);
         boolean csv = Responses.wantsCsv(ctx);
-        if (Responses.notModified(ctx, v, csv)) {
-            return;
-        }
-        FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), window.cumulative());
-        if (csv) {
-            StringBuilder sb = new StringBuilder("date");
-            table.names().forEach(n -> sb.append(',').append(Responses.csvText(n)));
-            sb.append('\n');
-            for (int t = 0; t < table.dates().size(); t++) {
-                sb.append(table.dates().get(t));
-                for (double[] row : table.returns()) {
-                    sb.append(',').append(Responses.csvNumber(row[t]));
-                }
+        // served from memory like the series: the key is the version's data version, which every build bumps
+        served.respond(ctx, Responses.dataKey(v), csv, () -> {
+            FactorPortfolios.Table table = portfolios.table(v, window.from(), window.to(), window.target(), window.cumulative());
+            if (csv) {
+                StringBuilder sb = new StringBuilder("date");
+                table.names().forEach(n -> sb.append(',').append(Responses.csvText(n)));
                 sb.append('\n');
+                for (int t = 0; t < table.dates().size(); t++) {
+                    sb.append(table.dates().get(t));
+                    for (double[] row : table.returns()) {
+                        sb.append(',').append(Responses.csvNumber(row[t]));
+                    }
+                    sb.append('\n');
+                }
+                return Responses.csvBody(sb.toString());
             }
-            Responses.csv(ctx, sb.toString());
-            return;
-        }
-        Map<String, double[]> returns = new LinkedHashMap<>();
-        for (int k = 0; k < table.names().size(); k++) {
-            returns.put(table.names().get(k), table.returns().get(k));
-        }
-        Json.respond(ctx, new CrossSectionWire.Portfolios(v.name(), v.version(), table.frequency().wireName(), window.form(),
-                table.names(), table.dates(), returns));
+            Map<String, double[]> returns = new LinkedHashMap<>();
+            for (int k = 0; k < table.names().size(); k++) {
+                returns.put(table.names().get(k), table.returns().get(k));
+            }
+            return Responses.jsonBody(new CrossSectionWire.Portfolios(v.name(), v.version(), table.frequency().wireName(), window.form(),
+                    table.names(), table.dates(), returns));
+        });
     }
 
     /** {@code POST /v1/fama-macbeth} (read scope). */

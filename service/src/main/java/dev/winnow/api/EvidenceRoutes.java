@@ -1,5 +1,7 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.EvidenceJson;
 import dev.winnow.research.FactorEvidence;
@@ -15,7 +17,6 @@ import io.javalin.http.Context;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -52,7 +53,7 @@ final class EvidenceRoutes {
         checkRiskFreeAlias(ctx);
         Snapshot snapshot = library.snapshot();
         List<Map<String, Object>> rows = new ArrayList<>();
-        List<Map<String, Object>> excluded = new ArrayList<>();
+        List<EvidenceJson.Excluded> excluded = new ArrayList<>();
         for (Trial trial : snapshot.trials()) {
             if (trial.inTable()) {
                 rows.add(EvidenceJson.row(trial, trial.row()));
@@ -60,14 +61,18 @@ final class EvidenceRoutes {
                 excluded.add(EvidenceJson.excluded(trial));
             }
         }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("trials", snapshot.table().trials());
-        out.put("basis", "monthly");
-        out.put("sharpe_variance", snapshot.table().sharpeVariance());
-        out.put("expected_max_sharpe", snapshot.table().expectedMaxSharpe());
-        out.put("factors", rows);
-        out.put("excluded", excluded);
-        Json.respond(ctx, out);
+        Json.respond(ctx, new Table(snapshot.table().trials(), "monthly", snapshot.table().sharpeVariance(),
+                snapshot.table().expectedMaxSharpe(), rows, excluded));
+    }
+
+    /** The trial table: N, its basis, V and SR0, a row per trial and the versions that are no trial. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record Table(int trials, String basis, double sharpeVariance, double expectedMaxSharpe, List<Map<String, Object>> factors,
+                 List<EvidenceJson.Excluded> excluded) {
+    }
+
+    /** A theme's composite series. */
+    record ThemeReturns(String theme, List<String> factors, String frequency, String form, LocalDate[] dates, double[] returns) {
     }
 
     void factor(Context ctx) {
@@ -113,13 +118,7 @@ final class EvidenceRoutes {
             Responses.csv(ctx, "date,return", series.dates(), series.values());
             return;
         }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("theme", theme);
-        out.put("factors", composite.factors());
-        out.put("frequency", composite.frequency().wireName());
-        out.put("form", window.form());
-        out.put("dates", series.dates());
-        out.put("returns", series.values());
-        Json.respond(ctx, out);
+        Json.respond(ctx, new ThemeReturns(theme, composite.factors(), composite.frequency().wireName(), window.form(), series.dates(),
+                series.values()));
     }
 }

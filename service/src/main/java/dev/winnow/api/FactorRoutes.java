@@ -1,6 +1,9 @@
 package dev.winnow.api;
 
 import dev.winnow.construct.FactorDefinition;
+import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.jobs.JobParams;
@@ -17,7 +20,8 @@ import dev.winnow.store.JsonText;
 import io.javalin.http.Context;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
+import java.time.LocalDate;
+import java.time.OffsetDateTime;
 import java.util.List;
 import java.util.Map;
 
@@ -54,7 +58,11 @@ final class FactorRoutes {
             return;
         }
         ctx.header("Location", "/v1/jobs/" + defined.buildJob());
-        Json.respond(ctx, 202, Map.of("job", String.valueOf(defined.buildJob()), "factor", name, "version", defined.version().version()));
+        Json.respond(ctx, 202, new BuildAccepted(String.valueOf(defined.buildJob()), name, defined.version().version()));
+    }
+
+    /** The 202 answer of a definition that queued a build. */
+    record BuildAccepted(String job, String factor, int version) {
     }
 
     void uploadSeries(Context ctx) {
@@ -72,12 +80,12 @@ final class FactorRoutes {
 
     void list(Context ctx) {
         boolean includeRetired = Requests.choiceParam(ctx, "include", List.of("retired"), "").equals("retired");
-        List<Map<String, Object>> out = new ArrayList<>();
+        List<FactorView> out = new ArrayList<>();
         FactorRoles roles = roles();
         for (FactorVersionRecord v : factors.catalog().listCurrent(includeRetired)) {
             out.add(view(v, roles));
         }
-        Json.respond(ctx, Map.of("factors", out));
+        Json.respond(ctx, new FactorList(out));
     }
 
     void get(Context ctx) {
@@ -103,15 +111,8 @@ final class FactorRoutes {
             if (csv) {
                 return Responses.csvBody(Responses.csvSeries("date,return", series.dates(), series.values()));
             }
-            Map<String, Object> out = new LinkedHashMap<>();
-            out.put("factor", request.version().name());
-            out.put("version", request.version().version());
-            out.put("frequency", resolved.frequency().wireName());
-            out.put("leg", request.leg().name().toLowerCase(java.util.Locale.ROOT));
-            out.put("form", form);
-            out.put("dates", series.dates());
-            out.put("returns", series.values());
-            return Responses.jsonBody(out);
+            return Responses.jsonBody(new Returns(request.version().name(), request.version().version(), resolved.frequency().wireName(),
+                    request.leg().name().toLowerCase(java.util.Locale.ROOT), form, series.dates(), series.values()));
         });
     }
 
@@ -121,12 +122,26 @@ final class FactorRoutes {
             return;
         }
         List<StoredTurnover> rows = factors.turnover(v.factorId(), v.version());
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", v.name());
-        out.put("version", v.version());
-        out.put("dates", rows.stream().map(StoredTurnover::formationDate).toList());
-        out.put("turnover", rows.stream().mapToDouble(StoredTurnover::turnover).toArray());
-        Json.respond(ctx, out);
+        Json.respond(ctx, new Turnover(v.name(), v.version(), rows.stream().map(StoredTurnover::formationDate).toList(),
+                rows.stream().mapToDouble(StoredTurnover::turnover).toArray()));
+    }
+
+    /** A factor's series: {@code dates} and {@code returns} side by side. */
+    record Returns(String factor, int version, String frequency, String leg, String form, LocalDate[] dates, double[] returns) {
+    }
+
+    /** The turnover of each formation. */
+    record Turnover(String factor, int version, List<LocalDate> dates, double[] turnover) {
+    }
+
+    /** One version of a factor, as {@code GET /v1/factors/{f}} answers it. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record FactorView(String name, int version, int currentVersion, JsonNode definition, String role, String status, boolean retired,
+                      LocalDate firstDate, LocalDate lastDate, int observations, long dataVersion, Map<String, Object> buildReport,
+                      OffsetDateTime createdAt, OffsetDateTime builtAt) {
+    }
+
+    record FactorList(List<FactorView> factors) {
     }
 
     /** The roles of the current definitions, retired factors included (their declared role still holds). */
@@ -134,23 +149,11 @@ final class FactorRoutes {
         return FactorRoles.of(factors.catalog().listCurrent(true));
     }
 
-    Map<String, Object> view(FactorVersionRecord v, FactorRoles roles) {
+    FactorView view(FactorVersionRecord v, FactorRoles roles) {
         SeriesSummary s = factors.seriesSummary(v.factorId(), v.version());
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("name", v.name());
-        out.put("version", v.version());
-        out.put("current_version", v.currentVersion());
-        out.put("definition", Json.MAPPER.valueToTree(JsonText.readMap(v.definitionJson())));
-        out.put("role", DefinitionJson.wire(roles.role(v.name())));
-        out.put("status", v.status().wireName());
-        out.put("retired", v.retired());
-        out.put("first_date", s.firstDate());
-        out.put("last_date", s.lastDate());
-        out.put("observations", s.observations());
-        out.put("data_version", v.dataVersion());
-        out.put("build_report", v.buildReport() == null ? null : JsonText.readMap(v.buildReport()));
-        out.put("created_at", v.createdAt());
-        out.put("built_at", v.builtAt());
-        return out;
+        return new FactorView(v.name(), v.version(), v.currentVersion(), Json.MAPPER.valueToTree(JsonText.readMap(v.definitionJson())),
+                DefinitionJson.wire(roles.role(v.name())), v.status().wireName(), v.retired(), s.firstDate(), s.lastDate(),
+                s.observations(), v.dataVersion(), v.buildReport() == null ? null : JsonText.readMap(v.buildReport()),
+                v.createdAt(), v.builtAt());
     }
 }

@@ -1,10 +1,10 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.research.Families;
 import io.javalin.http.Context;
 
-import java.util.LinkedHashMap;
-import java.util.Map;
 
 /** Variant families: declare, read, list, delete. */
 final class FamilyRoutes {
@@ -17,11 +17,8 @@ final class FamilyRoutes {
     void declare(Context ctx) throws Families.InvalidFamilyException {
         String name = Names.check("Family", ctx.pathParam("family"));
         Families.Declared declared = families.declare(name, Json.readObject(ctx));
-        Map<String, Object> body = new LinkedHashMap<>();
-        body.put("family", declared.family());
-        body.put("variants", declared.variants());
-        body.put("new_versions", declared.newVersions());
-        body.put("job", declared.job() == null ? null : String.valueOf(declared.job()));
+        DeclaredView body = new DeclaredView(declared.family(), declared.variants(), declared.newVersions(),
+                declared.job() == null ? null : String.valueOf(declared.job()));
         if (declared.job() == null) {
             Json.respond(ctx, 200, body);
             return;
@@ -30,12 +27,20 @@ final class FamilyRoutes {
         Json.respond(ctx, 202, body);
     }
 
+    /** A declared family: its variants, how many new versions it recorded, and their build job (null when none). */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record DeclaredView(String family, int variants, int newVersions, String job) {
+    }
+
     void get(Context ctx) {
         Json.respond(ctx, families.get(ctx.pathParam("family")));
     }
 
     void list(Context ctx) {
-        Json.respond(ctx, Map.of("families", families.list()));
+        Json.respond(ctx, new FamilyList(families.list()));
+    }
+
+    record FamilyList(java.util.List<Families.Listed> families) {
     }
 
     void delete(Context ctx) {

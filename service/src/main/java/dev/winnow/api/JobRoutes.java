@@ -1,11 +1,13 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JobStore.JobRecord;
 import dev.winnow.store.JsonText;
 import io.javalin.http.Context;
 
-import java.util.LinkedHashMap;
+import java.time.OffsetDateTime;
 import java.util.List;
 import java.util.Map;
 
@@ -29,20 +31,16 @@ final class JobRoutes {
         Json.respond(ctx, view(job));
     }
 
-    static Map<String, Object> view(JobRecord job) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("id", String.valueOf(job.id()));
-        out.put("kind", job.kind().wireName());
-        out.put("state", job.state().wireName());
-        out.put("progress", job.progress());
-        out.put("rows_read", job.rowsRead());
-        out.put("rows_accepted", job.rowsAccepted());
-        out.put("rows_rejected", job.rowsRejected());
-        out.put("errors", job.errors() == null ? List.of() : JsonText.readList(job.errors()));
-        out.put("report", job.report() == null ? Map.of() : JsonText.readMap(job.report()));
-        out.put("created_at", job.createdAt());
-        out.put("started_at", job.startedAt());
-        out.put("finished_at", job.finishedAt());
-        return out;
+    /** The body of {@code GET /v1/jobs/{id}}; the id is a string, as in every answer that names a job. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record JobView(String id, String kind, String state, double progress, long rowsRead, long rowsAccepted, long rowsRejected,
+                   List<Map<String, Object>> errors, Map<String, Object> report, OffsetDateTime createdAt,
+                   OffsetDateTime startedAt, OffsetDateTime finishedAt) {
+    }
+
+    static JobView view(JobRecord job) {
+        return new JobView(String.valueOf(job.id()), job.kind().wireName(), job.state().wireName(), job.progress(), job.rowsRead(),
+                job.rowsAccepted(), job.rowsRejected(), job.errors() == null ? List.of() : JsonText.readList(job.errors()),
+                job.report() == null ? Map.of() : JsonText.readMap(job.report()), job.createdAt(), job.startedAt(), job.finishedAt());
     }
 }

@@ -33,9 +33,20 @@ public final class Json {
         module.addSerializer(OffsetDateTime.class, new TimestampSerializer());
         return new ObjectMapper()
                 .registerModule(module)
+                .addMixIn(dev.winnow.stats.Summary.class, SummaryWire.class)
                 .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
                 .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS)
                 .enable(com.fasterxml.jackson.core.JsonParser.Feature.STRICT_DUPLICATE_DETECTION);
+    }
+
+    /**
+     * The wire names of {@code stats.Summary}'s statistics: snake_case, as every answer spells them (Jackson's
+     * strategy would write {@code nwTStat} as {@code nw_tstat}, hence the one explicit name).
+     */
+    @com.fasterxml.jackson.databind.annotation.JsonNaming(com.fasterxml.jackson.databind.PropertyNamingStrategies.SnakeCaseStrategy.class)
+    private interface SummaryWire {
+        @com.fasterxml.jackson.annotation.JsonProperty("nw_t_stat")
+        double nwTStat();
     }
 
     public static void respond(Context ctx, int status, Object body) {

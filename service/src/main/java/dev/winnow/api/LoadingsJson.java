@@ -3,6 +3,8 @@ package dev.winnow.api;
 import com.fasterxml.jackson.core.JsonFactory;
 import com.fasterxml.jackson.core.JsonGenerator;
 import com.fasterxml.jackson.core.StreamWriteFeature;
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.construct.LoadingsSpec;
 import dev.winnow.construct.LoadingsTable;
 import dev.winnow.construct.SecurityLoadingsHistory;
@@ -16,10 +18,9 @@ import dev.winnow.store.PanelStore.PanelRecord;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.UncheckedIOException;
+import java.time.LocalDate;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 
 /** The JSON form of loadings answers (snake_case; NaN becomes null when written). */
 final class LoadingsJson {
@@ -84,67 +85,60 @@ final class LoadingsJson {
         }
     }
 
-    static Map<String, Object> characteristic(Characteristic answer) {
+    static CharacteristicAnswer characteristic(Characteristic answer) {
         double[][] scores = answer.scores();
-        List<Map<String, Object>> securities = new ArrayList<>(answer.rows().size());
+        List<SecurityExposures> securities = new ArrayList<>(answer.rows().size());
         for (int row : answer.rows()) {
             double[] exposures = new double[scores.length];
             for (int c = 0; c < scores.length; c++) {
                 exposures[c] = scores[c][row];
             }
-            Map<String, Object> s = new LinkedHashMap<>();
-            s.put("security", answer.codes().get(answer.securityIds()[row]));
-            s.put("exposures", exposures);
-            securities.add(s);
+            securities.add(new SecurityExposures(answer.codes().get(answer.securityIds()[row]), exposures));
         }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("panel", answer.panel().name());
-        out.put("date", answer.date());
-        out.put("kind", "characteristic");
-        out.put("columns", answer.columns());
-        out.put("securities", securities);
-        return out;
+        return new CharacteristicAnswer(answer.panel().name(), answer.date(), "characteristic", answer.columns(), securities);
     }
 
-    static Map<String, Object> history(History answer) {
+    record SecurityExposures(String security, double[] exposures) {
+    }
+
+    /** {@code GET /v1/loadings?kind=characteristic}: each security's standardised characteristics. */
+    record CharacteristicAnswer(String panel, LocalDate date, String kind, List<String> columns, List<SecurityExposures> securities) {
+    }
+
+    static HistoryAnswer history(History answer) {
         SecurityLoadingsHistory history = answer.history();
         LoadingsSpec spec = answer.spec();
-        Map<String, Object> out = head(answer.panel(), "security", answer.security(), spec);
-        out.put("dates", history == null ? List.of() : history.dates());
-        out.put("n", history == null ? new int[0] : history.usable());
-        out.put("alpha", history == null ? new double[0] : history.alpha());
-        out.put("betas", history == null ? new double[spec.factorCount()][0] : history.betas());
-        out.put("r_squared", history == null ? new double[0] : history.rSquared());
-        out.put("residual_vol", history == null ? new double[0] : history.residualVol());
-        return out;
+        return new HistoryAnswer(answer.panel().name(), answer.security(), spec.factors(), spec.window(), spec.minObs(),
+                history == null ? List.of() : history.dates(), history == null ? new int[0] : history.usable(),
+                history == null ? new double[0] : history.alpha(), history == null ? new double[spec.factorCount()][0] : history.betas(),
+                history == null ? new double[0] : history.rSquared(), history == null ? new double[0] : history.residualVol());
     }
 
-    static Map<String, Object> exposures(Exposures answer) {
-        Map<String, Object> out = head(answer.panel(), "date", answer.date(), answer.spec());
-        out.put("exposures", answer.exposure().exposures());
-        out.put("coverage", answer.exposure().coverage());
-        out.put("missing", answer.exposure().missingHoldings().stream().map(answer.securities()::get).toList());
-        return out;
+    /** {@code GET /v1/loadings/{security}}: one security's regression over time. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record HistoryAnswer(String panel, String security, List<String> factors, int window, int minObs, List<LocalDate> dates, int[] n,
+                         double[] alpha, double[][] betas, double[] rSquared, double[] residualVol) {
     }
 
-    static Map<String, Object> config(PanelRecord panel, LoadingsConfig config) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("panel", panel.name());
-        out.put("factors", config.spec().factors());
-        out.put("window", config.spec().window());
-        out.put("min_obs", config.spec().minObs());
-        out.put("updated_at", config.updatedAt());
-        return out;
+    static ExposuresAnswer exposures(Exposures answer) {
+        LoadingsSpec spec = answer.spec();
+        return new ExposuresAnswer(answer.panel().name(), answer.date(), spec.factors(), spec.window(), spec.minObs(),
+                answer.exposure().exposures(), answer.exposure().coverage(),
+                answer.exposure().missingHoldings().stream().map(answer.securities()::get).toList());
     }
 
-    /** The fields every regression answer starts with. */
-    private static Map<String, Object> head(PanelRecord panel, String key, Object value, LoadingsSpec spec) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("panel", panel.name());
-        out.put(key, value);
-        out.put("factors", spec.factors());
-        out.put("window", spec.window());
-        out.put("min_obs", spec.minObs());
-        return out;
+    /** {@code POST /v1/exposures}: a portfolio's factor exposures. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record ExposuresAnswer(String panel, LocalDate date, List<String> factors, int window, int minObs, double[] exposures,
+                           double coverage, List<String> missing) {
+    }
+
+    static ConfigAnswer config(PanelRecord panel, LoadingsConfig config) {
+        return new ConfigAnswer(panel.name(), config.spec().factors(), config.spec().window(), config.spec().minObs(), config.updatedAt());
+    }
+
+    /** A panel's loadings config. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record ConfigAnswer(String panel, List<String> factors, int window, int minObs, java.time.OffsetDateTime updatedAt) {
     }
 }

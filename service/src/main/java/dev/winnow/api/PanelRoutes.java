@@ -1,5 +1,7 @@
 package dev.winnow.api;
 
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.jobs.JobParams;
 import dev.winnow.jobs.JobQueue;
@@ -7,8 +9,8 @@ import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import io.javalin.http.Context;
 
+import java.time.LocalDate;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -35,11 +37,11 @@ final class PanelRoutes {
     }
 
     void list(Context ctx) {
-        List<Map<String, Object>> out = new ArrayList<>();
+        List<PanelView> out = new ArrayList<>();
         for (PanelRecord p : panels.listVisible()) {
             out.add(view(p, panels.columns(p.id())));
         }
-        Json.respond(ctx, Map.of("panels", out));
+        Json.respond(ctx, new PanelList(out));
     }
 
     void get(Context ctx) {
@@ -49,28 +51,24 @@ final class PanelRoutes {
         Json.respond(ctx, view(p, panels.columns(p.id())));
     }
 
-    private static Map<String, Object> view(PanelRecord p, Map<String, String> extraColumns) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("name", p.name());
-        out.put("first_date", p.firstDate());
-        out.put("last_date", p.lastDate());
-        out.put("dates", p.dateCount());
-        out.put("securities", p.securityCount());
-        out.put("rows", p.rowCount());
-        out.put("frequency", p.frequency());
-        List<Map<String, String>> columns = new ArrayList<>();
-        columns.add(column("security", "label"));
-        columns.add(column("return", "number"));
-        extraColumns.forEach((name, type) -> columns.add(column(name, type)));
-        out.put("columns", columns);
-        out.put("data_version", p.dataVersion());
-        return out;
+    record Column(String name, String type) {
     }
 
-    private static Map<String, String> column(String name, String type) {
-        Map<String, String> c = new LinkedHashMap<>();
-        c.put("name", name);
-        c.put("type", type);
-        return c;
+    /** A panel: its range, size, frequency and columns (security and return first, then the others as stored). */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record PanelView(String name, LocalDate firstDate, LocalDate lastDate, int dates, int securities, long rows, String frequency,
+                     List<Column> columns, long dataVersion) {
+    }
+
+    record PanelList(List<PanelView> panels) {
+    }
+
+    private static PanelView view(PanelRecord p, Map<String, String> extraColumns) {
+        List<Column> columns = new ArrayList<>();
+        columns.add(new Column("security", "label"));
+        columns.add(new Column("return", "number"));
+        extraColumns.forEach((name, type) -> columns.add(new Column(name, type)));
+        return new PanelView(p.name(), p.firstDate(), p.lastDate(), p.dateCount(), p.securityCount(), p.rowCount(), p.frequency(),
+                columns, p.dataVersion());
     }
 }

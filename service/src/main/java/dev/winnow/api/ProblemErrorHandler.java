@@ -8,8 +8,6 @@ import org.eclipse.jetty.server.handler.ErrorHandler;
 import org.eclipse.jetty.util.Callback;
 
 import java.nio.ByteBuffer;
-import java.util.LinkedHashMap;
-import java.util.Map;
 
 /**
  * Jetty's own error answers (a request it refuses before Javalin sees it: a path or header too long, a broken
@@ -33,13 +31,9 @@ final class ProblemErrorHandler extends ErrorHandler {
     }
 
     static byte[] body(int status, String reason, String path) {
-        Map<String, Object> body = new LinkedHashMap<>();
-        body.put("type", "about:blank");
-        body.put("title", title(status));
-        body.put("status", status);
-        body.put("detail", detail(status, reason));
-        body.put("instance", path == null ? "/" : path.length() > MAX_SHOWN_PATH ? path.substring(0, MAX_SHOWN_PATH) + "..." : path);
-        return Json.write(body).getBytes(java.nio.charset.StandardCharsets.UTF_8);
+        String instance = path == null ? "/" : path.length() > MAX_SHOWN_PATH ? path.substring(0, MAX_SHOWN_PATH) + "..." : path;
+        return Json.write(ApiProblem.Body.of(title(status), status, detail(status, reason), instance, java.util.List.of()))
+                .getBytes(java.nio.charset.StandardCharsets.UTF_8);
     }
 
     private static String title(int status) {

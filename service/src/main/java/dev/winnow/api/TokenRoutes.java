@@ -1,13 +1,13 @@
 package dev.winnow.api;
 
 import com.fasterxml.jackson.databind.JsonNode;
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.research.ConflictException;
 import dev.winnow.store.TokenStore;
 import io.javalin.http.Context;
 
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 import java.util.Set;
 import java.util.regex.Pattern;
 
@@ -37,23 +37,23 @@ final class TokenRoutes {
         if (!tokens.insert(name, scope.wireName(), Authenticator.hash(token))) {
             throw new ConflictException("A token named '" + name + "' exists; revoke it first or choose another name.");
         }
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("name", name);
-        out.put("scope", scope.wireName());
-        out.put("token", token);
-        out.put("note", "Store this token now: it is shown only once.");
-        Json.respond(ctx, 201, out);
+        Json.respond(ctx, 201, new Created(name, scope.wireName(), token, "Store this token now: it is shown only once."));
+    }
+
+    /** A new token: the only answer that shows its secret. */
+    record Created(String name, String scope, String token, String note) {
+    }
+
+    /** A token in the list: never its secret. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    record Listed(String name, String scope, java.time.OffsetDateTime createdAt) {
+    }
+
+    record TokenList(List<Listed> tokens) {
     }
 
     void list(Context ctx) {
-        List<Map<String, Object>> out = tokens.all().stream().map(t -> {
-            Map<String, Object> m = new LinkedHashMap<>();
-            m.put("name", t.name());
-            m.put("scope", t.scope());
-            m.put("created_at", t.createdAt());
-            return m;
-        }).toList();
-        Json.respond(ctx, Map.of("tokens", out));
+        Json.respond(ctx, new TokenList(tokens.all().stream().map(t -> new Listed(t.name(), t.scope(), t.createdAt())).toList()));
     }
 
     void revoke(Context ctx) {

@@ -24,10 +24,11 @@ import java.util.regex.Pattern;
 
 /**
  * Serving speed against a static web server in the same run ({@code java -jar winnow.jar bench serving}, also run at
- * the end of the full benchmark): the service on a temporary store holds a 300-point monthly series and ten
- * 6,300-point daily series; for each measured request, the exact bytes it answers are written to a file that nginx
+ * the end of the full benchmark): the service on a temporary store holds a 300-point monthly series, ten
+ * 6,300-point daily series and a 5-bucket sort over 300 months; for each measured request, the exact bytes it answers are written to a file that nginx
  * (two worker processes) serves, and {@code wrk -t2 -c64 -d10s} loads each over loopback, Winnow with the bearer
- * token, after a warm-up of 4 s per request and 3 s more right before each measurement. Reports requests per second, errors (socket errors and non-2xx answers) and the ratio Winnow / nginx.
+ * token, after the loading's jobs have finished and a garbage collection, a warm-up of 4 s per request (its rates
+ * printed) and 3 s more right before each measurement. Reports requests per second, errors (socket errors and non-2xx answers) and the ratio Winnow / nginx.
  * Installs Debian's wrk and nginx-light with apt-get when they are missing and the process may (root).
  */
 final class ServingBench {
@@ -79,6 +80,7 @@ final class ServingBench {
                     daily.add("daily" + f);
                     external("daily" + f, days, random);
                 }
+                sortFactor("bucketed", months, random);
                 String ten = String.join(",", daily);
                 String[][] targets = {
                     // measured in this order: the first measurement after loading runs slower for every request
@@ -86,6 +88,7 @@ final class ServingBench {
                     {"/v1/returns over 10 daily factors", "/v1/returns?factors=" + ten, null},
                     {"/summary of a daily factor", "/v1/factors/daily0/summary", null},
                     {"/v1/covariance of 10 daily factors", "/v1/covariance?factors=" + ten + "&half_life=126&nw_lags=2", null},
+                    {"/portfolios of a 5-bucket monthly sort", "/v1/factors/bucketed/portfolios", null},
                     {"300-point monthly series", "/v1/factors/monthly/returns", "0.30"},
                     {"6,300-point daily series", "/v1/factors/daily0/returns", "0.50"},
                 };
@@ -100,21 +103,34 @@ final class ServingBench {
                 nginx = startNginx(dir, root, nginxPort);
                 System.out.printf(Locale.ROOT, "serving: wrk -t2 -c64 -d10s on loopback; Winnow with a bearer token; nginx (2 workers) "
                         + "serving the identical bytes as a static file%n");
-                // warm-up: the JIT compiles the serving path before anything is measured
+                // settle: the loading's garbage collected and the queue idle, so the first measurement does not pay for them
+                awaitIdleQueue();
+                System.gc();
+                // warm-up: the JIT compiles the serving path before anything is measured; its rates are printed to
+                // show how long the service takes to reach its pace after loading
+                StringBuilder warm = new StringBuilder("  warm-up (4 s each, in order): req/s [JIT compile ms, GC ms of this JVM]:");
                 for (String[] target : targets) {
-                    wrk("http://127.0.0.1:" + port + target[1], true, "4s");
+                    long[] before = jvmTimes();
+                    double rps = wrk("http://127.0.0.1:" + port + target[1], true, "4s").rps();
+                    long[] after = jvmTimes();
+                    warm.append(String.format(Locale.ROOT, " %.0f [%d, %d]", rps, after[0] - before[0], after[1] - before[1]));
                 }
+                System.out.println(warm);
                 for (int i = 0; i < targets.length; i++) {
                     int bytes = (int) Files.size(root.resolve("t" + i));
                     wrk("http://127.0.0.1:" + port + targets[i][1], true, "3s"); // again right before, as nginx gets none
+                    long[] before = jvmTimes();
                     Result ours = wrk("http://127.0.0.1:" + port + targets[i][1], true);
+                    long[] after = jvmTimes();
                     Result theirs = wrk("http://127.0.0.1:" + nginxPort + "/t" + i, false);
                     double ratio = ours.rps() / theirs.rps();
                     String target = targets[i][2] == null ? "" : String.format(Locale.ROOT, " (target >= %.0f%%: %s)",
                             100 * Double.parseDouble(targets[i][2]),
                             ratio >= Double.parseDouble(targets[i][2]) && ours.errors() == 0 ? "met" : "NOT met");
-                    System.out.printf(Locale.ROOT, "  %-36s %8d bytes: Winnow %8.0f req/s (%d errors), nginx %8.0f req/s (%d errors), ratio %.0f%%%s%n",
-                            targets[i][0], bytes, ours.rps(), ours.errors(), theirs.rps(), theirs.errors(), 100 * ratio, target);
+                    System.out.printf(Locale.ROOT, "  %-38s %8d bytes: Winnow %8.0f req/s (%d errors), nginx %8.0f req/s (%d errors), ratio %.0f%%%s"
+                                    + " [JIT %d ms, GC %d ms; load %s]%n",
+                            targets[i][0], bytes, ours.rps(), ours.errors(), theirs.rps(), theirs.errors(), 100 * ratio, target,
+                            after[0] - before[0], after[1] - before[1], loadAverage());
                 }
             }
         } finally {
@@ -125,6 +141,86 @@ final class ServingBench {
             try (var files = Files.walk(dir)) {
                 files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
             }
+        }
+    }
+
+    /**
+     * A panel of 40 securities over the months and a 5-bucket sort on its score, so that the factor stores its
+     * five bucket portfolios (300 points each).
+     */
+    private void sortFactor(String name, List<LocalDate> months, SplittableRandom random) throws Exception {
+        StringBuilder csv = new StringBuilder("date,security,return,market_cap,score\n");
+        for (LocalDate month : months) {
+            for (int s = 0; s < 40; s++) {
+                csv.append(month).append(",B").append(s).append(',')
+                        .append(String.format(Locale.ROOT, "%.6f,%.2f,%.4f", 0.05 * (random.nextDouble() - 0.5), 100 + 10 * s + random.nextDouble(),
+                                random.nextDouble()))
+                        .append('\n');
+            }
+        }
+        awaitJob(send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/panels/bench/uploads"))
+                .header("Content-Type", "text/csv").POST(HttpRequest.BodyPublishers.ofString(csv.toString()))), "panel bench");
+        awaitJob(send(HttpRequest.newBuilder(URI.create("http://127.0.0.1:" + port + "/v1/factors/" + name))
+                .header("Content-Type", "application/json").PUT(HttpRequest.BodyPublishers.ofString("{\"panel\":\"bench\",\"method\":\"sort\","
+                        + "\"signal\":\"score\",\"buckets\":5,\"weighting\":\"equal\",\"rebalance\":\"monthly\",\"theme\":\"bench\","
+                        + "\"rationale\":\"serving benchmark\"}"))), "factor " + name);
+    }
+
+    private String send(HttpRequest.Builder request) throws Exception {
+        return client.send(request.header("Authorization", "Bearer " + TOKEN).build(), HttpResponse.BodyHandlers.ofString()).body();
+    }
+
+    /** Waits for the job a 202 answer names. */
+    private void awaitJob(String accepted, String what) throws Exception {
+        Matcher m = Pattern.compile("\"job\":\"?(\\d+)").matcher(accepted);
+        if (!m.find()) {
+            throw new IllegalStateException(what + " was not accepted: " + accepted);
+        }
+        while (true) {
+            String state = new String(get("/v1/jobs/" + m.group(1)), StandardCharsets.UTF_8);
+            if (state.contains("\"succeeded\"")) {
+                return;
+            }
+            if (state.contains("\"failed\"")) {
+                throw new IllegalStateException(what + " failed: " + state);
+            }
+            Thread.sleep(50);
+        }
+    }
+
+    /** Waits until no job is queued or running (builds queued by the loading may still run in the background). */
+    private void awaitIdleQueue() throws Exception {
+        long deadline = System.nanoTime() + TimeUnit.SECONDS.toNanos(120);
+        while (System.nanoTime() < deadline) {
+            String health = new String(get("/health"), StandardCharsets.UTF_8);
+            Matcher queued = Pattern.compile("\"(queued|running)\":(\\d+)").matcher(health);
+            boolean busy = false;
+            while (queued.find()) {
+                busy |= !queued.group(2).equals("0");
+            }
+            if (!busy) {
+                return;
+            }
+            Thread.sleep(200);
+        }
+    }
+
+    /** Milliseconds this JVM has spent compiling (JIT) and collecting garbage so far. */
+    private static long[] jvmTimes() {
+        long gc = 0;
+        for (var bean : java.lang.management.ManagementFactory.getGarbageCollectorMXBeans()) {
+            gc += Math.max(0, bean.getCollectionTime());
+        }
+        var jit = java.lang.management.ManagementFactory.getCompilationMXBean();
+        return new long[] {jit == null ? -1 : jit.getTotalCompilationTime(), gc};
+    }
+
+    /** The 1-minute load average of the machine, as /proc/loadavg gives it ("?" where there is none). */
+    private static String loadAverage() {
+        try {
+            return Files.readString(Path.of("/proc/loadavg")).split(" ")[0];
+        } catch (IOException | RuntimeException e) {
+            return "?";
         }
     }
 

@@ -40,16 +40,13 @@ public final class EvidenceJson {
         return out;
     }
 
-    /** A version that is no trial, with the reason. */
-    public static Map<String, Object> excluded(TrialLibrary.Trial trial) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("factor", trial.name());
-        out.put("version", trial.version().version());
-        out.put("retired", trial.version().retired());
-        out.put("theme", trial.theme());
-        out.put("frequency", trial.basis().nativeFrequency().wireName());
-        out.put("reason", trial.exclusionReason());
-        return out;
+    /** A version that is no trial, with the reason: a row of {@code excluded} in {@code GET /v1/evidence}. */
+    public record Excluded(String factor, int version, boolean retired, String theme, String frequency, String reason) {
+    }
+
+    public static Excluded excluded(TrialLibrary.Trial trial) {
+        return new Excluded(trial.name(), trial.version().version(), trial.version().retired(), trial.theme(),
+                trial.basis().nativeFrequency().wireName(), trial.exclusionReason());
     }
 
     public static Map<String, Object> period(PeriodStatistics p) {

@@ -41,7 +41,7 @@ public final class FactorPortfolios {
             throw new ConflictException("Factor '" + v.name() + "' is a " + DefinitionJson.wire(v.method()) + " factor and has no portfolios;"
                     + " the methods that have them are sort (its buckets) and size_sort (its six 2x3 portfolios).");
         }
-        Map<String, ReturnSeries> stored = factors.portfolios(v.factorId(), v.version());
+        Map<String, ReturnSeries> stored = factors.portfolios(v);
         List<ReturnSeries> series = new ArrayList<>();
         Frequency nativeFrequency = null;
         for (String name : names) {

@@ -44,6 +44,13 @@ public record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) 
         } catch (IllegalArgumentException e) {
             throw new InvalidRequestException("Loadings settings: " + e.getMessage() + ".");
         }
+        for (String name : spec.factors()) {
+            if (name.indexOf(':') >= 0) {
+                throw new InvalidRequestException("'" + name + "' names a portfolio; loadings, exposures and risk regress on factors"
+                        + " (their spreads): name the factor, e.g. '" + name.substring(0, name.indexOf(':')) + "'. Portfolios can be"
+                        + " read in /v1/returns, /v1/covariance, correlations and model tests.");
+            }
+        }
         if (spec.window() > panel.dateCount()) {
             throw new InvalidRequestException("Window " + spec.window() + (window == null ? " (the default for " + frequency.wireName()
                     + " panels)" : "") + " is larger than the " + panel.dateCount() + " dates of panel '" + panel.name()

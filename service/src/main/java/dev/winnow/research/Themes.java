@@ -17,10 +17,8 @@ import dev.winnow.store.FactorStore.FactorVersionRecord;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Locale;
-import java.util.Map;
 
 /** Declared themes beside correlation clusters, and a theme's composite series. */
 public final class Themes {
@@ -35,40 +33,43 @@ public final class Themes {
      * linkage on 1 - rho (Pearson, monthly, pairwise complete) cut at {@code threshold}; the others are listed with
      * the reason they could not be clustered. Inputs are in no theme and no cluster.
      */
-    public Map<String, Object> comparison(Snapshot library, double threshold) {
+    public Comparison comparison(Snapshot library, double threshold) {
         List<Trial> live = library.live().stream().filter(t -> !t.input()).toList();
         List<String> clusteredNames = new ArrayList<>();
         List<String> clusteredThemes = new ArrayList<>();
         List<ReturnSeries> clusteredSeries = new ArrayList<>();
-        List<Map<String, Object>> excluded = new ArrayList<>();
+        List<Unclustered> excluded = new ArrayList<>();
         for (Trial t : live) {
             if (t.usable()) {
                 clusteredNames.add(t.name());
                 clusteredThemes.add(t.theme());
                 clusteredSeries.add(t.monthly());
             } else {
-                Map<String, Object> e = new LinkedHashMap<>();
-                e.put("factor", t.name());
-                e.put("reason", t.excluded() ? t.basis().excludedReason()
-                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status().wireName() + ")");
-                excluded.add(e);
+                excluded.add(new Unclustered(t.name(), t.excluded() ? t.basis().excludedReason()
+                        : "fewer than " + TrialStatistics.MIN_OBSERVATIONS + " monthly returns (status " + t.version().status().wireName() + ")"));
             }
         }
         double[][] correlation = Correlations.matrix(clusteredSeries, Correlations.Method.PEARSON).matrix();
         ThemeComparison comparison = ThemeComparison.of(clusteredNames, clusteredThemes, correlation, threshold);
-        Map<String, Object> out = new LinkedHashMap<>();
-        out.put("basis", "monthly");
-        out.put("threshold", threshold);
-        out.put("declared", ThemeComparison.declaredGroups(live.stream().map(Trial::name).toList(),
-                        live.stream().map(Trial::theme).toList()).stream()
-                .map(g -> mapOf("theme", g.theme(), "factors", g.factors())).toList());
-        out.put("clusters", comparison.clusters().stream().map(c -> mapOf("cluster", c.cluster(), "factors", c.factors())).toList());
-        out.put("disagreements", comparison.disagreements().stream().map(d -> mapOf(
-                "factors", List.of(d.first(), d.second()),
-                "kind", d.kind().name().toLowerCase(Locale.ROOT),
-                "correlation", d.correlation())).toList());
-        out.put("excluded", excluded);
-        return out;
+        return new Comparison("monthly", threshold,
+                ThemeComparison.declaredGroups(live.stream().map(Trial::name).toList(), live.stream().map(Trial::theme).toList()),
+                comparison.clusters(),
+                comparison.disagreements().stream().map(d -> new Disagreement(List.of(d.first(), d.second()),
+                        d.kind().name().toLowerCase(Locale.ROOT), d.correlation())).toList(),
+                excluded);
+    }
+
+    /** The body of {@code GET /v1/themes}: declared themes beside the correlation clusters, and where they disagree. */
+    public record Comparison(String basis, double threshold, List<ThemeComparison.DeclaredGroup> declared,
+                             List<ThemeComparison.Cluster> clusters, List<Disagreement> disagreements, List<Unclustered> excluded) {
+    }
+
+    /** Two factors whose declared themes and correlation disagree, and how. */
+    public record Disagreement(List<String> factors, String kind, double correlation) {
+    }
+
+    /** A live factor left out of the clustering, with the reason. */
+    public record Unclustered(String factor, String reason) {
     }
 
     /** A theme's composite series and what it is made of. */
@@ -127,13 +128,5 @@ public final class Themes {
             composite = FrequencyConversion.cumulative(composite);
         }
         return new Composite(theme, members.stream().map(FactorVersionRecord::name).toList(), frequency, composite);
-    }
-
-    private static Map<String, Object> mapOf(Object... namesAndValues) {
-        Map<String, Object> out = new LinkedHashMap<>();
-        for (int i = 0; i < namesAndValues.length; i += 2) {
-            out.put((String) namesAndValues[i], namesAndValues[i + 1]);
-        }
-        return out;
     }
 }

@@ -138,5 +138,9 @@ class RiskEndToEndTest {
         FiniteJson.problem(server.postJson("/v1/risk", "{\"panel\":\"dock\",\"factors\":[\"a\"],\"window\":36,\"holdings\":[{\"security\":\"QR02\",\"weight\":1}],"
                 + "\"benchmark\":[{\"security\":\"QR02\",\"weight\":1}]}", token), 400, "zero active weights");
         FiniteJson.problem(server.postJson("/v1/risk", "{\"panel\":\"dock\",\"factors\":[\"a\"],\"window\":36,\"holdings\":[]}", token), 400, "empty");
+        TestServer.Reply portfolio = server.postJson("/v1/risk", "{\"panel\":\"dock\",\"factors\":[\"a:1\"],\"window\":36,"
+                + "\"holdings\":[{\"security\":\"QR02\",\"weight\":1}]}", token);
+        FiniteJson.problem(portfolio, 400, "a portfolio name as a risk factor");
+        assertTrue(portfolio.json().get("detail").asText().contains("names a portfolio"), portfolio.body());
     }
 }

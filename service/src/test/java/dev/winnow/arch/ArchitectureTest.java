@@ -91,6 +91,61 @@ class ArchitectureTest {
         assertEquals(List.of(), violations);
     }
 
+    /** The rows of DEVELOPERS.md's architecture table: package, then the packages of each further column. */
+    static Map<String, List<Set<String>>> documentedTable(String markdown) {
+        int start = markdown.indexOf("<!-- architecture-table");
+        int end = markdown.indexOf("<!-- end architecture-table -->");
+        assertTrue(start >= 0 && end > start, "DEVELOPERS.md has no architecture table between its markers");
+        Map<String, List<Set<String>>> rows = new java.util.TreeMap<>();
+        Pattern name = Pattern.compile("`([a-z]+)`");
+        for (String line : markdown.substring(start, end).split("\\R")) {
+            String[] cells = line.split("\\|");
+            if (cells.length < 4 || !cells[1].trim().startsWith("`")) {
+                continue;
+            }
+            List<Set<String>> columns = new ArrayList<>();
+            for (int c = 2; c < cells.length; c++) {
+                Set<String> packages = new TreeSet<>();
+                Matcher m = name.matcher(cells[c]);
+                while (m.find()) {
+                    packages.add(m.group(1));
+                }
+                columns.add(packages);
+            }
+            rows.put(cells[1].trim().replace("`", ""), columns);
+        }
+        return rows;
+    }
+
+    /**
+     * DEVELOPERS.md's table says what each package refers to today (exactly what the sources refer to, so the
+     * diagram's description stays true) and what it may refer to (exactly {@link #ALLOWED}).
+     */
+    @Test
+    void developersTableIsTheRealDependencies() throws IOException {
+        Map<String, List<Set<String>>> table = documentedTable(Files.readString(Path.of("../DEVELOPERS.md"), StandardCharsets.UTF_8));
+        Map<String, Set<String>> actual = new java.util.TreeMap<>();
+        ALLOWED.keySet().forEach(p -> actual.put(p, new TreeSet<>()));
+        for (Source s : sources()) {
+            for (String ref : references(s.text())) {
+                if (!ref.equals(s.topPackage())) {
+                    actual.computeIfAbsent(s.topPackage(), k -> new TreeSet<>()).add(ref);
+                }
+            }
+        }
+        assertEquals(new TreeSet<>(ALLOWED.keySet()), table.keySet(), "the packages of DEVELOPERS.md's table");
+        List<String> wrong = new ArrayList<>();
+        for (String p : ALLOWED.keySet()) {
+            if (!table.get(p).get(0).equals(actual.get(p))) {
+                wrong.add(p + " refers to " + actual.get(p) + ", the table says " + table.get(p).get(0));
+            }
+            if (!table.get(p).get(1).equals(new TreeSet<>(ALLOWED.get(p)))) {
+                wrong.add(p + " may refer to " + new TreeSet<>(ALLOWED.get(p)) + ", the table says " + table.get(p).get(1));
+            }
+        }
+        assertEquals(List.of(), wrong, "DEVELOPERS.md's architecture table against the sources");
+    }
+
     @Test
     void nothingBelowApiImportsJavalin() throws IOException {
         List<String> violations = new ArrayList<>();
