@@ -50,12 +50,16 @@ final class BucketSortRule implements PortfolioRule {
 
     /** The B-1 breakpoints: type-7 quantiles at j/B (j = 1..B-1) of the signal over {@code rows}. */
     static double[] cuts(double[] signal, int[] rows, int buckets) {
-        double[] sorted = Eligibility.sortedValues(signal, rows);
-        double[] cuts = new double[buckets - 1];
-        for (int j = 1; j < buckets; j++) {
-            cuts[j - 1] = Quantiles.type7Sorted(sorted, j / (double) buckets);
+        double[] values = new double[rows.length];
+        for (int k = 0; k < rows.length; k++) {
+            values[k] = signal[rows[k]];
         }
-        return cuts;
+        double[] probabilities = new double[buckets - 1];
+        for (int j = 1; j < buckets; j++) {
+            probabilities[j - 1] = j / (double) buckets;
+        }
+        // selection, not a sort: the breakpoints are all a sort needs of the ordered sample
+        return Quantiles.type7Select(values, probabilities);
     }
 
     /**

@@ -236,6 +236,8 @@ public final class FactorEngine {
         private final String key;
         private final int start;
         private Holding[] book;
+        /** Scratch: the current cross-section's row of each security id, shared by the sub-portfolios. */
+        private int[] rowIndex;
         private final List<FactorObservation> observations = new ArrayList<>();
         private final List<Formation> formations = new ArrayList<>();
         private final List<PortfolioObservation> portfolioObservations = new ArrayList<>();
@@ -387,8 +389,12 @@ public final class FactorEngine {
         /** One period of the current holding: returns, drift, and the observation if the factor has a return. */
         private void hold(CrossSection rows, double cost) {
             double[] subReturns = new double[book.length];
+            int[] rowOf = book.length > 1 ? Holding.rowIndex(rows, rowIndex) : null;
+            if (rowOf != null) {
+                rowIndex = rowOf;
+            }
             for (int s = 0; s < book.length; s++) {
-                subReturns[s] = book[s].holdThrough(rows);
+                subReturns[s] = book[s].holdThrough(rows, rowOf);
             }
             double longLeg = legMean(subReturns, rule.longLeg());
             double shortLeg = legMean(subReturns, rule.shortLeg());

@@ -65,6 +65,15 @@ final class Holding {
      * NaN when no member has a return.
      */
     double holdThrough(CrossSection xs) {
+        return holdThrough(xs, null);
+    }
+
+    /**
+     * As {@link #holdThrough(CrossSection)}, finding members through {@code rowOf} when given: the cross-section's row
+     * of each security id (-1 where absent, and ids past its end absent), built once per date for all sub-portfolios
+     * ({@link #rowIndex}) instead of one merge over the whole cross-section per sub-portfolio.
+     */
+    double holdThrough(CrossSection xs, int[] rowOf) {
         int[] rowIds = xs.securityIds();
         double[] returns = xs.returns();
         double weighted = 0.0;
@@ -73,10 +82,16 @@ final class Holding {
         int row = 0;
         for (int k = 0; k < size; k++) {
             int id = ids[k];
-            while (row < rowIds.length && rowIds[row] < id) {
-                row++;
+            double r;
+            if (rowOf != null) {
+                int at = id >= 0 && id < rowOf.length ? rowOf[id] : -1;
+                r = at >= 0 ? returns[at] : Double.NaN;
+            } else {
+                while (row < rowIds.length && rowIds[row] < id) {
+                    row++;
+                }
+                r = row < rowIds.length && rowIds[row] == id ? returns[row] : Double.NaN;
             }
-            double r = row < rowIds.length && rowIds[row] == id ? returns[row] : Double.NaN;
             if (!Double.isFinite(r)) {
                 continue;
             }
@@ -89,4 +104,27 @@ final class Holding {
         size = kept;
         return kept == 0 ? Double.NaN : weighted / total;
     }
+
+    /**
+     * The row of each security id of {@code xs} (ids ascending and non-negative): -1 where absent. Reuses {@code scratch}
+     * when it is large enough; null when the ids are too sparse for a dense index (then members are found by merging).
+     */
+    static int[] rowIndex(CrossSection xs, int[] scratch) {
+        int[] rowIds = xs.securityIds();
+        int n = rowIds.length;
+        if (n == 0 || rowIds[0] < 0) {
+            return null;
+        }
+        int maxId = rowIds[n - 1];
+        if (maxId > 16L * n + 1024) {
+            return null;
+        }
+        int[] index = scratch != null && scratch.length > maxId ? scratch : new int[maxId + 1 + (maxId >> 3)];
+        Arrays.fill(index, -1);
+        for (int row = 0; row < n; row++) {
+            index[rowIds[row]] = row;
+        }
+        return index;
+    }
+
 }

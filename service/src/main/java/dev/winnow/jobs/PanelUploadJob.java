@@ -88,17 +88,7 @@ public final class PanelUploadJob implements JobHandler {
             long parseStart = System.nanoTime();
             try (SliceStager stager = panels.stager(panelId, uploadId)) {
                 SecurityDictionary ids = panels.batchedSecurityDictionary(panelId, uploadId);
-                result = parser.parse(upload, ids::idFor, new CrossSectionSink() {
-                            @Override
-                            public void accept(CrossSection cs) throws InterruptedException {
-                                stager.accept(cs);
-                            }
-
-                            @Override
-                            public void discardAccepted() {
-                                stager.discardStaged();
-                            }
-                        },
+                result = parser.parse(upload, ids::idFor, sinkInto(stager),
                         p -> progress.report(new Counters(0.9 * p.fraction(), p.rowsRead(), p.rowsAccepted(), p.rowsRejected())));
                 if (result.accepted()) {
                     long parsed = System.nanoTime();
@@ -148,6 +138,21 @@ public final class PanelUploadJob implements JobHandler {
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
 
+    /** The parser's sink staging into {@code stager}, which forgets what it staged when the parser starts over. */
+    public static CrossSectionSink sinkInto(SliceStager stager) {
+        return new CrossSectionSink() {
+            @Override
+            public void accept(CrossSection cs) throws InterruptedException {
+                stager.accept(cs);
+            }
+
+            @Override
+            public void discardAccepted() {
+                stager.discardStaged();
+            }
+        };
+    }
+
     private static long millis(long nanos) {
         return nanos / 1_000_000;
     }
@@ -165,18 +170,33 @@ public final class PanelUploadJob implements JobHandler {
     }
 
     private List<Map<String, Object>> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
+        List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId));
+        List<FactorBuilds.TogetherOutcome> outcomes = new ArrayList<>();
+        if (revise) {
+            // full rebuilds share one pass over the panel; the others resume from their checkpoints
+            outcomes.addAll(builds.rebuildAllFrom(live, earliestRevised));
+        } else {
+            for (FactorVersionRecord v : live) {
+                try {
+                    outcomes.add(new FactorBuilds.TogetherOutcome(v, builds.extend(v), null));
+                } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
+                    outcomes.add(new FactorBuilds.TogetherOutcome(v, null, e.getMessage()));
+                }
+            }
+        }
         List<Map<String, Object>> updated = new ArrayList<>();
-        for (FactorVersionRecord v : FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId))) {
+        for (FactorBuilds.TogetherOutcome o : outcomes) {
+            FactorVersionRecord v = o.version();
             Map<String, Object> entry = new LinkedHashMap<>();
             entry.put("factor", v.name());
             entry.put("version", v.version());
             entry.put("action", revise ? "rebuilt" : "extended");
-            try {
-                entry.putAll(revise ? builds.rebuildFrom(v, earliestRevised) : builds.extend(v));
-            } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
-                factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", e.getMessage())));
+            if (o.error() == null) {
+                entry.putAll(o.report());
+            } else {
+                factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", o.error())));
                 entry.put("action", "failed");
-                entry.put("error", e.getMessage());
+                entry.put("error", o.error());
             }
             updated.add(entry);
         }

@@ -182,6 +182,61 @@ public final class FactorBuilds {
     }
 
     /**
+     * Brings every version up to date after its panel's data changed on or after {@code earliestChanged}, each as
+     * {@link #rebuildFrom} would, in the given order (dependencies first); except that the versions {@link #rebuildFrom}
+     * would rebuild from scratch and that read no other factor's series (no risk-free rate, no factor in their recipe)
+     * are rebuilt together first, in one pass over their panel ({@link #rebuildTogether}: each cross-section read and
+     * decoded once for all of them instead of once each). A revision of a panel's first date is such a case for every
+     * factor on it. Each outcome holds its version's report, or the error that kept it from being built.
+     */
+    public List<TogetherOutcome> rebuildAllFrom(List<FactorVersionRecord> versions, LocalDate earliestChanged) {
+        List<FactorVersionRecord> together = new ArrayList<>();
+        Map<FactorVersionRecord, Integer> dateCounts = new java.util.HashMap<>();
+        for (FactorVersionRecord v : versions) {
+            try {
+                FactorDefinition def = definition(v);
+                if (def.riskFree() != null || !def.recipeFactors().isEmpty()) {
+                    continue;
+                }
+                StorePanelSource panel = panelSource(v, def);
+                boolean resumes = earliestChanged != null && factors.latestCheckpointBefore(v.factorId(), v.version(), earliestChanged)
+                        .filter(c -> resumable(c, def, panel.dates())).isPresent();
+                if (!resumes) {
+                    together.add(v);
+                    dateCounts.put(v, panel.dates().size());
+                }
+            } catch (FactorBuildException | IllegalArgumentException e) {
+                // left to rebuildFrom below, which reports it
+            }
+        }
+        Map<FactorVersionRecord, TogetherOutcome> done = new java.util.HashMap<>();
+        if (together.size() > 1) {
+            for (TogetherOutcome o : rebuildTogether(together, null)) {
+                if (o.report() != null) {
+                    Map<String, Object> report = new LinkedHashMap<>(o.report());
+                    report.put("rebuilt_from", null);
+                    report.put("recomputed_dates", dateCounts.get(o.version()));
+                    o = new TogetherOutcome(o.version(), report, null);
+                }
+                done.put(o.version(), o);
+            }
+        }
+        List<TogetherOutcome> out = new ArrayList<>(versions.size());
+        for (FactorVersionRecord v : versions) {
+            TogetherOutcome o = done.get(v);
+            if (o == null) {
+                try {
+                    o = new TogetherOutcome(v, rebuildFrom(v, earliestChanged), null);
+                } catch (FactorBuildException | IllegalArgumentException e) {
+                    o = new TogetherOutcome(v, null, e.getMessage());
+                }
+            }
+            out.add(o);
+        }
+        return out;
+    }
+
+    /**
      * What a version holds at grid date {@code dateIndex} (see {@link FactorEngine#holdings}), replayed from the latest
      * stored checkpoint at or before its latest formation (from the first date without one); null when no formation
      * happened by then.

@@ -46,4 +46,113 @@ public final class Quantiles {
         }
         return sorted[j] + (h - j) * (sorted[j + 1] - sorted[j]);
     }
+
+    /**
+     * Type-7 quantiles (the definition above) at several probabilities at once, by selection instead of a full sort:
+     * only the order statistics x[floor h] and x[floor h + 1] of each probability are put in place, by a multiple
+     * selection (Hoare's FIND, 1961, "Algorithm 65: Find", CACM 4(7): partition around a pivot and continue only in
+     * the parts that hold a wanted rank), expected time O(n log k) for k probabilities instead of O(n log n). Gives
+     * exactly the values of {@link #type7Sorted} on the sorted sample (the same order statistics, the same formula; only
+     * the sign of a zero may differ, which no comparison sees).
+     *
+     * @param values        the sample, finite values only; reordered in place
+     * @param probabilities each within [0, 1]
+     * @return the quantile at each probability, in the given order; NaN for an empty sample
+     * @throws IllegalArgumentException when a probability is outside [0, 1] or a value is not finite
+     */
+    public static double[] type7Select(double[] values, double[] probabilities) {
+        int n = values.length;
+        double[] out = new double[probabilities.length];
+        for (double p : probabilities) {
+            if (!(p >= 0.0 && p <= 1.0)) {
+                throw new IllegalArgumentException("quantile probability must be within [0, 1], got " + p);
+            }
+        }
+        if (n == 0) {
+            Arrays.fill(out, Double.NaN);
+            return out;
+        }
+        for (double v : values) {
+            if (!Double.isFinite(v)) {
+                throw new IllegalArgumentException("quantile sample must hold finite values only; drop missing values first");
+            }
+        }
+        int[] ranks = new int[2 * probabilities.length];
+        int k = 0;
+        for (double p : probabilities) {
+            int j = (int) Math.floor((n - 1) * p);
+            ranks[k++] = Math.min(j, n - 1);
+            ranks[k++] = Math.min(j + 1, n - 1);
+        }
+        ranks = Arrays.stream(ranks, 0, k).sorted().distinct().toArray();
+        select(values, 0, n - 1, ranks, 0, ranks.length - 1);
+        for (int q = 0; q < probabilities.length; q++) {
+            double h = (n - 1) * probabilities[q];
+            int j = (int) Math.floor(h);
+            out[q] = j >= n - 1 ? values[n - 1] : values[j] + (h - j) * (values[j + 1] - values[j]);
+        }
+        return out;
+    }
+
+    /** Puts a[r] in its sorted place for every r in ranks[rLo..rHi] (ascending, all within [lo, hi]). */
+    private static void select(double[] a, int lo, int hi, int[] ranks, int rLo, int rHi) {
+        while (rLo <= rHi) {
+            if (hi - lo < 24) {
+                insertionSort(a, lo, hi);
+                return;
+            }
+            // median of three as the pivot; a three-way partition keeps runs of ties from degrading it
+            int mid = (lo + hi) >>> 1;
+            double x = a[lo];
+            double y = a[mid];
+            double z = a[hi];
+            double pivot = x < y ? (y < z ? y : Math.max(x, z)) : (x < z ? x : Math.max(y, z));
+            int lt = lo;
+            int gt = hi;
+            int i = lo;
+            while (i <= gt) {
+                double v = a[i];
+                if (v < pivot) {
+                    a[i++] = a[lt];
+                    a[lt++] = v;
+                } else if (v > pivot) {
+                    a[i] = a[gt];
+                    a[gt--] = v;
+                } else {
+                    i++;
+                }
+            }
+            // a[lo..lt) < pivot, a[lt..gt] == pivot, a(gt..hi] > pivot
+            int left = rLo;
+            while (left <= rHi && ranks[left] < lt) {
+                left++;
+            }
+            int right = left;
+            while (right <= rHi && ranks[right] <= gt) {
+                right++;
+            }
+            // ranks[rLo..left) are left of the pivots, ranks[left..right) among them (done), ranks[right..rHi] right
+            if (left - rLo < rHi - right + 1) {
+                select(a, lo, lt - 1, ranks, rLo, left - 1);
+                lo = gt + 1;
+                rLo = right;
+            } else {
+                select(a, gt + 1, hi, ranks, right, rHi);
+                hi = lt - 1;
+                rHi = left - 1;
+            }
+        }
+    }
+
+    private static void insertionSort(double[] a, int lo, int hi) {
+        for (int i = lo + 1; i <= hi; i++) {
+            double v = a[i];
+            int j = i - 1;
+            while (j >= lo && a[j] > v) {
+                a[j + 1] = a[j];
+                j--;
+            }
+            a[j + 1] = v;
+        }
+    }
 }

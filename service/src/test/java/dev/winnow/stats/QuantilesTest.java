@@ -74,4 +74,39 @@ class QuantilesTest {
         assertThrows(IllegalArgumentException.class, () -> Quantiles.type7(new double[] {1, 2}, 1.5));
         assertThrows(IllegalArgumentException.class, () -> Quantiles.type7(new double[] {1, Double.NaN}, 0.5));
     }
+
+    @Test
+    void selectionGivesTheSortedSamplesQuantilesAndCommonsMathR7() {
+        // the selection puts the same order statistics in place as a sort; reference as above: Commons Math 3.6.1 R_7
+        Random random = new Random(1961);
+        double[][] probabilitySets = {{0.2, 0.4, 0.6, 0.8}, {0.5}, {0.3, 0.7}, {0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9},
+            {0.0, 1.0}, {1.0 / 3, 2.0 / 3}};
+        for (int trial = 0; trial < 600; trial++) {
+            int n = trial < 30 ? trial : 1 + random.nextInt(trial % 5 == 0 ? 4000 : 300);
+            double[] x = new double[n];
+            for (int i = 0; i < n; i++) {
+                x[i] = switch (trial % 4) {
+                    case 0 -> random.nextInt(3);            // long runs of ties
+                    case 1 -> i;                            // already sorted
+                    case 2 -> n - i;                        // reversed
+                    default -> random.nextGaussian() * 100;
+                };
+            }
+            double[] sorted = x.clone();
+            Arrays.sort(sorted);
+            Percentile reference = new Percentile().withEstimationType(EstimationType.R_7);
+            for (double[] ps : probabilitySets) {
+                double[] got = Quantiles.type7Select(x.clone(), ps);
+                for (int q = 0; q < ps.length; q++) {
+                    assertEquals(Quantiles.type7Sorted(sorted, ps[q]), got[q], 0.0, "n=" + n + " p=" + ps[q]);
+                    if (n > 0) {
+                        double expected = reference.evaluate(x, ps[q] == 0.0 ? Double.MIN_VALUE : ps[q] * 100);
+                        assertEquals(expected, got[q], 1e-12 * Math.max(1, Math.abs(expected)), "R_7 n=" + n + " p=" + ps[q]);
+                    }
+                }
+            }
+        }
+        assertThrows(IllegalArgumentException.class, () -> Quantiles.type7Select(new double[] {1, Double.NaN}, new double[] {0.5}));
+        assertThrows(IllegalArgumentException.class, () -> Quantiles.type7Select(new double[] {1, 2}, new double[] {-0.1}));
+    }
 }
