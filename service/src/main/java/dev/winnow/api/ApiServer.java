@@ -15,6 +15,7 @@ import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.InvalidRequestException;
+import dev.winnow.research.NameKind;
 import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.LoadingsService;
 import dev.winnow.research.SignalPreview;
@@ -187,8 +188,10 @@ public final class ApiServer {
      * for anything unexpected.
      */
     static void mapErrors(JavalinConfig config) {
-        config.routes.exception(UnknownNameException.class, (e, ctx) -> problem(ctx, 404, "Not found", e.getMessage(), java.util.List.of()));
-        config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
+        config.routes.exception(UnknownNameException.class, (e, ctx) -> problem(ctx, 404, "Not found", withListing(e.getMessage(), e.listed()),
+                java.util.List.of()));
+        config.routes.exception(InvalidRequestException.class, (e, ctx) -> problem(ctx, 400, "Bad request",
+                withListing(e.getMessage(), e.listed()), java.util.List.of()));
         config.routes.exception(InsufficientDataException.class, (e, ctx) -> problem(ctx, 400, "Bad request", e.getMessage(), java.util.List.of()));
         config.routes.exception(ConflictException.class, (e, ctx) -> problem(ctx, 409, "Conflict", e.getMessage(), java.util.List.of()));
         config.routes.exception(ApiProblem.class, (e, ctx) -> problem(ctx, e.status(), e.title(), e.detail(), e.errors()));
@@ -197,7 +200,7 @@ public final class ApiServer {
         config.routes.exception(Families.InvalidFamilyException.class, (e, ctx) -> problem(ctx, 400, "Invalid family",
                 e.getMessage(), messages(e.problems())));
         config.routes.exception(SignalPreview.PanelNotFoundException.class, (e, ctx) -> problem(ctx, 404, "Not found",
-                e.getMessage(), java.util.List.of()));
+                withListing(e.getMessage(), NameKind.PANEL), java.util.List.of()));
         config.routes.exception(UploadSpool.UploadTooLargeException.class, (e, ctx) -> problem(ctx, 413, "Content too large",
                 e.getMessage(), java.util.List.of()));
         config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
@@ -266,6 +269,20 @@ public final class ApiServer {
             return "No endpoint " + ctx.method() + " " + ctx.path() + "; see openapi.yaml for the API.";
         }
         return e.getMessage();
+    }
+
+    /** A domain message naming something unknown, and where names of its kind are listed. */
+    static String withListing(String message, NameKind listed) {
+        if (listed == null) {
+            return message;
+        }
+        String where = switch (listed) {
+            case FACTOR -> "GET /v1/factors";
+            case PANEL -> "GET /v1/panels";
+            case FAMILY -> "GET /v1/families";
+            case THEME -> "GET /v1/themes";
+        };
+        return message + "; " + where + " lists them.";
     }
 
     static void problem(Context ctx, int status, String title, String detail, java.util.List<Map<String, Object>> errors) {

@@ -18,7 +18,6 @@ import io.javalin.http.Context;
 import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.List;
-import java.util.Map;
 
 /** The evidence against data mining: the library-wide trial table, one factor's evidence, and themes. */
 final class EvidenceRoutes {
@@ -52,7 +51,7 @@ final class EvidenceRoutes {
     void table(Context ctx) {
         checkRiskFreeAlias(ctx);
         Snapshot snapshot = library.snapshot();
-        List<Map<String, Object>> rows = new ArrayList<>();
+        List<EvidenceJson.Row> rows = new ArrayList<>();
         List<EvidenceJson.Excluded> excluded = new ArrayList<>();
         for (Trial trial : snapshot.trials()) {
             if (trial.inTable()) {
@@ -67,7 +66,7 @@ final class EvidenceRoutes {
 
     /** The trial table: N, its basis, V and SR0, a row per trial and the versions that are no trial. */
     @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
-    record Table(int trials, String basis, double sharpeVariance, double expectedMaxSharpe, List<Map<String, Object>> factors,
+    record Table(int trials, String basis, double sharpeVariance, double expectedMaxSharpe, List<EvidenceJson.Row> factors,
                  List<EvidenceJson.Excluded> excluded) {
     }
 

@@ -33,18 +33,23 @@ public final class Json {
         module.addSerializer(OffsetDateTime.class, new TimestampSerializer());
         return new ObjectMapper()
                 .registerModule(module)
-                .addMixIn(dev.winnow.stats.Summary.class, SummaryWire.class)
+                .addMixIn(dev.winnow.stats.Summary.class, StatsWire.class)
+                .addMixIn(dev.winnow.stats.PeriodStatistics.class, StatsWire.class)
+                .addMixIn(dev.winnow.stats.Monotonicity.Bucket.class, StatsWire.class)
+                .addMixIn(dev.winnow.stats.Monotonicity.Step.class, StatsWire.class)
+                .addMixIn(dev.winnow.stats.LiveRecord.Side.class, StatsWire.class)
                 .enable(DeserializationFeature.FAIL_ON_UNKNOWN_PROPERTIES)
                 .enable(DeserializationFeature.FAIL_ON_TRAILING_TOKENS)
                 .enable(com.fasterxml.jackson.core.JsonParser.Feature.STRICT_DUPLICATE_DETECTION);
     }
 
     /**
-     * The wire names of {@code stats.Summary}'s statistics: snake_case, as every answer spells them (Jackson's
+     * The wire names of the value records of {@code stats} that answers hold (Summary, PeriodStatistics, the
+     * monotonicity buckets and steps, a live record's sides): snake_case, as every answer spells them (Jackson's
      * strategy would write {@code nwTStat} as {@code nw_tstat}, hence the one explicit name).
      */
     @com.fasterxml.jackson.databind.annotation.JsonNaming(com.fasterxml.jackson.databind.PropertyNamingStrategies.SnakeCaseStrategy.class)
-    private interface SummaryWire {
+    private interface StatsWire {
         @com.fasterxml.jackson.annotation.JsonProperty("nw_t_stat")
         double nwTStat();
     }

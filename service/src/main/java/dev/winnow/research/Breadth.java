@@ -1,5 +1,8 @@
 package dev.winnow.research;
 
+import com.fasterxml.jackson.annotation.JsonUnwrapped;
+import com.fasterxml.jackson.databind.PropertyNamingStrategies;
+import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.PanelSource;
 import dev.winnow.construct.SegmentRebuild;
@@ -16,7 +19,6 @@ import dev.winnow.store.PanelStore;
 import dev.winnow.store.StorePanelSource;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 import java.util.Optional;
@@ -52,7 +54,16 @@ public final class Breadth {
         }
     }
 
-    public Map<String, Object> section(Trial trial, String column, double fullMean) {
+    /** The breadth section's numbers: the segment column, one row per segment, and the tally. */
+    @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
+    public record Numbers(String segment, List<SegmentRow> segments, int counted, int sameSign) {
+    }
+
+    /** One segment: its label value (or size half) and the monthly statistics of the rebuilt series. */
+    public record SegmentRow(String value, @JsonUnwrapped PeriodStatistics statistics) {
+    }
+
+    public EvidenceJson.Section<Numbers> section(Trial trial, String column, double fullMean) {
         FactorDefinition def = trial.definition();
         Long panelId = trial.version().panelId();
         if (def == null || !SegmentRebuild.supports(def) || panelId == null) {
@@ -82,35 +93,26 @@ public final class Breadth {
             segments = SegmentRebuild.byLabel(def, panel, riskFree, column, values);
         }
         List<PeriodStatistics> statistics = new ArrayList<>();
-        List<Map<String, Object>> rows = new ArrayList<>();
+        List<SegmentRow> rows = new ArrayList<>();
         for (SegmentRebuild.Segment segment : segments) {
             PeriodStatistics s = PeriodStatistics.of(MonthlyBasis.of(segment.spread()).monthly());
             statistics.add(s);
-            Map<String, Object> row = new LinkedHashMap<>();
-            row.put("value", segment.value());
-            row.putAll(EvidenceJson.period(s));
-            rows.add(row);
+            rows.add(new SegmentRow(segment.value(), s));
         }
         BreadthTally tally = EvidenceVerdicts.tallyBreadth(statistics, fullMean);
-        Map<String, Object> numbers = numbers(column, rows, tally);
-        return EvidenceJson.section(numbers, EvidenceVerdicts.breadth(tally), null);
+        return EvidenceJson.section(numbers(column, rows, tally), EvidenceVerdicts.breadth(tally), null);
     }
 
     /** The section's numbers with no segment built. */
-    public static Map<String, Object> emptyNumbers(String column) {
+    public static Numbers emptyNumbers(String column) {
         return numbers(column, List.of(), new BreadthTally(0, 0));
     }
 
-    private static Map<String, Object> unavailable(String column, String reason) {
+    private static EvidenceJson.Section<Numbers> unavailable(String column, String reason) {
         return EvidenceJson.section(emptyNumbers(column), EvidenceVerdicts.notEnoughData(Section.BREADTH, reason), null);
     }
 
-    private static Map<String, Object> numbers(String column, List<Map<String, Object>> rows, BreadthTally tally) {
-        Map<String, Object> numbers = new LinkedHashMap<>();
-        numbers.put("segment", column == null ? SegmentRebuild.SIZE_HALVES : column);
-        numbers.put("segments", rows);
-        numbers.put("counted", tally.counted());
-        numbers.put("same_sign", tally.sameSign());
-        return numbers;
+    private static Numbers numbers(String column, List<SegmentRow> rows, BreadthTally tally) {
+        return new Numbers(column == null ? SegmentRebuild.SIZE_HALVES : column, rows, tally.counted(), tally.sameSign());
     }
 }

@@ -86,7 +86,7 @@ public final class FactorDefinitions {
         if (def.method() != Method.EXTERNAL && def.panel() != null) {
             PanelRecord panel = panels.find(def.panel()).filter(PanelRecord::visible).orElse(null);
             if (panel == null) {
-                throw new InvalidDefinitionException(List.of("unknown panel '" + def.panel() + "'; upload it first (GET /v1/panels lists panels)"));
+                throw new InvalidDefinitionException(List.of("unknown panel '" + def.panel() + "'; upload it first"));
             }
             panelId = panel.id();
             schema = schemaOf(panels.columns(panel.id()));
@@ -137,7 +137,7 @@ public final class FactorDefinitions {
             if (against.equals(name)) {
                 problems.add(at + ": a factor cannot read its own returns");
             } else if (factors.current(against).isEmpty()) {
-                problems.add(at + ": no factor '" + against + "'; define it first (GET /v1/factors lists factors)");
+                problems.add(at + ": no factor '" + against + "'; define it first");
             } else if (reads(against, name, new java.util.HashSet<>())) {
                 problems.add(at + ": factor '" + against + "' reads '" + name + "' itself (through its risk_free or signal),"
                         + " so this would be a cycle");

@@ -71,7 +71,7 @@ public final class FamaMacBethStudy {
 
     public Result run(Request request) {
         PanelRecord panel = panels.find(request.panel()).filter(PanelRecord::visible)
-                .orElseThrow(() -> new InvalidRequestException("No panel '" + request.panel() + "'; GET /v1/panels lists them."));
+                .orElseThrow(() -> new InvalidRequestException("No panel '" + request.panel() + "'", NameKind.PANEL));
         PanelSchema schema = FactorDefinitions.schemaOf(panels.columns(panel.id()));
         List<String> names = new ArrayList<>(request.signals().keySet());
         List<String> problems = new ArrayList<>();
@@ -107,7 +107,7 @@ public final class FamaMacBethStudy {
         Map<String, ReturnSeries> out = new LinkedHashMap<>();
         for (String name : recipe.factors()) {
             FactorVersionRecord f = factors.current(name).orElseThrow(() -> new InvalidRequestException(
-                    "A signal reads factor '" + name + "', which does not exist; GET /v1/factors lists them."));
+                    "A signal reads factor '" + name + "', which does not exist", NameKind.FACTOR));
             out.put(name, factors.series(f.factorId(), f.version(), FactorStore.Leg.SPREAD));
         }
         return out;

@@ -93,7 +93,7 @@ public final class Families {
             problems.add("a family name may have at most 96 characters, so that its variants <family>-<n> are valid factor names");
         }
         if (base == null || !base.isObject()) {
-            problems.add("base is required: a factor definition (as for PUT /v1/factors/{factor})");
+            problems.add("base is required: a factor definition, as a factor is declared");
         }
         if (vary == null || !vary.isObject() || vary.isEmpty()) {
             problems.add("vary is required: an object mapping at least one path into the definition to a non-empty array of values");
@@ -434,7 +434,7 @@ public final class Families {
 
     private FamilyRecord live(String name) {
         return families.find(name).filter(f -> !f.retired())
-                .orElseThrow(() -> new UnknownNameException("No family '" + name + "'; GET /v1/families lists them."));
+                .orElseThrow(() -> new UnknownNameException("No family '" + name + "'", NameKind.FAMILY));
     }
 
     private static String jobText(Long id) {

@@ -60,7 +60,7 @@ public record Regression(LoadingsSpec spec, List<FactorVersionRecord> versions) 
             return new Regression(spec, LoadingsFactors.currentVersions(factors, spec.factors()));
         } catch (NoSuchElementException e) {
             // the factors are named in the query or body, not in the path: a bad request naming the factor
-            throw new InvalidRequestException(e.getMessage());
+            throw new InvalidRequestException(e.getMessage(), NameKind.FACTOR);
         } catch (IllegalStateException e) {
             throw new InvalidRequestException(e.getMessage());
         }

@@ -58,8 +58,7 @@ public final class SeriesNames {
         int colon = name.lastIndexOf(':');
         String factor = colon < 0 ? name : name.substring(0, colon);
         FactorVersionRecord v = factors.catalog().current(factor)
-                .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + factor + "' in '" + parameter
-                        + "'; GET /v1/factors lists them."));
+                .orElseThrow(() -> new InvalidRequestException("Unknown factor '" + factor + "' in '" + parameter + "'", NameKind.FACTOR));
         if (colon < 0) {
             return new Named(name, v, null);
         }

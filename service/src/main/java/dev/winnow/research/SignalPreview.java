@@ -63,7 +63,7 @@ public final class SignalPreview {
     /** No visible panel of that name. */
     public static final class PanelNotFoundException extends Exception {
         public PanelNotFoundException(String panel) {
-            super("No panel '" + panel + "'; GET /v1/panels lists them.");
+            super("No panel '" + panel + "'");
         }
     }
 
@@ -102,7 +102,7 @@ public final class SignalPreview {
             for (String f : recipe.factors()) {
                 FactorVersionRecord v = factors.current(f).orElse(null);
                 if (v == null) {
-                    problems.add("signal: no factor '" + f + "' (trailing_beta against); GET /v1/factors lists factors");
+                    problems.add("signal: no factor '" + f + "' (trailing_beta against); define it first");
                 } else {
                     series.put(f, factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD));
                 }

@@ -88,7 +88,7 @@ public final class Themes {
             }
         }
         if (members.isEmpty()) {
-            throw new UnknownNameException("No live factor with a series declares the theme '" + theme + "'; GET /v1/themes lists the themes.");
+            throw new UnknownNameException("No live factor with a series declares the theme '" + theme + "'", NameKind.THEME);
         }
         return members;
     }

@@ -123,6 +123,7 @@ public final class Database implements AutoCloseable {
         }
         java.nio.file.Path file = H2Url.storeFile(pool.getJdbcUrl()).orElse(null);
         Long before = size(file);
+        awaitIdleConnections(2_000);
         try (java.sql.Connection c = pool.getConnection(); java.sql.Statement s = c.createStatement()) {
             s.execute("SHUTDOWN COMPACT");
         } catch (java.sql.SQLException closedUnderUs) {
@@ -135,6 +136,24 @@ public final class Database implements AutoCloseable {
         }
         jdbi.withHandle(h -> h.createQuery("SELECT COUNT(*) FROM jobs").mapTo(Long.class).one());
         return new Compaction(before, size(file), "compacted");
+    }
+
+    /**
+     * Waits (at most {@code maxMillis}) until no connection of the pool is in use, so that a request still finishing
+     * its transaction (the compaction's own enqueue among them: the worker may see the job before the request's commit
+     * returns) is not cut off by {@code SHUTDOWN COMPACT}. Requests that start later may still answer 503.
+     */
+    private void awaitIdleConnections(long maxMillis) {
+        var bean = pool.getHikariPoolMXBean();
+        long deadline = System.nanoTime() + maxMillis * 1_000_000L;
+        while (bean != null && bean.getActiveConnections() > 0 && System.nanoTime() < deadline) {
+            try {
+                Thread.sleep(5);
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                return;
+            }
+        }
     }
 
     private static Long size(java.nio.file.Path file) {

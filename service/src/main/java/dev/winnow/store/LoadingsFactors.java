@@ -30,7 +30,7 @@ public final class LoadingsFactors {
         for (String name : names) {
             FactorVersionRecord v = current.get(name);
             if (v == null) {
-                throw new NoSuchElementException("No factor '" + name + "'; GET /v1/factors lists the factors.");
+                throw new NoSuchElementException("No factor '" + name + "'");
             }
             if (v.status() != VersionStatus.READY) {
                 throw new IllegalStateException("Factor '" + name + "' version " + v.version() + " is " + v.status().wireName()

@@ -213,12 +213,14 @@ public final class PostgresChangeFeed implements ChangeFeed, AutoCloseable {
 
     /** Makes the caches of {@code topic} reload if {@code generation} is newer than what was applied here. */
     private boolean apply(Topic topic, long generation) {
-        long before = applied.getAndAccumulate(topic.ordinal(), generation, Math::max);
-        if (generation > before) {
-            versions.incrementAndGet(topic.ordinal());
-            return true;
+        if (generation <= applied.get(topic.ordinal())) {
+            return false;
         }
-        return false;
+        // the counter first: any acknowledgement (another thread may write one at any moment) that includes this
+        // generation must come after the caches were told to reload
+        versions.incrementAndGet(topic.ordinal());
+        applied.accumulateAndGet(topic.ordinal(), generation, Math::max);
+        return true;
     }
 
     /** Writes what this instance has applied, and that it is alive, into its row (inserting it if missing). */
