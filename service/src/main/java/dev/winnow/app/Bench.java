@@ -24,7 +24,7 @@ import java.util.Locale;
  * The documented benchmark ({@code java -Xmx512m -jar winnow.jar bench [securities] [dates]}): generates a synthetic
  * daily panel, then drives a real service over HTTP on a temporary store and reports ingest rows per second, the build
  * time of one sort factor, the time to append one day to a panel with ten factors, the time to revise its last five
- * days, and peak memory.
+ * days, the cross-sectional studies ({@link CrossSectionBench}) and peak memory.
  * Job times are the worker's own (started to finished); upload times include sending the body over loopback.
  */
 final class Bench {
@@ -40,6 +40,12 @@ final class Bench {
     static void run(String[] args) throws Exception {
         if (args.length > 1 && args[1].equals("serving")) {
             ServingBench.run();
+            return;
+        }
+        if (args.length > 1 && args[1].equals("cross-section")) {
+            int securities = args.length > 2 ? Integer.parseInt(args[2]) : 3000;
+            int dates = args.length > 3 ? Integer.parseInt(args[3]) : 6300;
+            new Bench().crossSectionOnly(securities, dates);
             return;
         }
         int securities = args.length > 1 ? Integer.parseInt(args[1]) : 3000;
@@ -121,7 +127,38 @@ final class Bench {
                                 + "(resumed from %s): job %.3f s, peak heap %d MB%n", 5L * securities, dates + 1,
                         revise.path("report").path("factors").get(0).path("rebuilt_from").asText(), BenchClient.jobSeconds(revise), peakHeap() >> 20);
                 analytics(dates);
+                new CrossSectionBench(http, winnow.jdbi()).run("bench", "mom");
                 System.out.printf(Locale.ROOT, "store size on disk: %.0f MB%n", directorySize(store) / 1e6);
+                System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
+                        Runtime.getRuntime().maxMemory() >> 20, peakResidentSet());
+            }
+        } finally {
+            try (var files = Files.walk(dir)) {
+                files.sorted(Comparator.reverseOrder()).forEach(p -> p.toFile().delete());
+            }
+        }
+    }
+
+    /**
+     * Only the cross-sectional figures ({@code bench cross-section [securities] [dates]}): generates and ingests the
+     * panel, builds the one momentum sort factor whose signal the information coefficients read, then runs
+     * {@link CrossSectionBench}.
+     */
+    private void crossSectionOnly(int securities, int dates) throws Exception {
+        Path dir = Files.createTempDirectory("winnow-bench");
+        try {
+            Path panel = dir.resolve("panel.csv");
+            System.out.printf(Locale.ROOT, "generating %d securities x %d dates ...%n", securities, dates);
+            SyntheticPanelWriter.write(panel, securities, dates, SyntheticPanelWriter.DEFAULT_SEED);
+            Path store = dir.resolve("store");
+            try (Winnow winnow = Winnow.start(new Config(0, "127.0.0.1", store, Config.defaultH2Url(store), TOKEN))) {
+                port = winnow.port();
+                http = new BenchClient(port, TOKEN, 100);
+                JsonNode ingest = http.awaitJob(http.upload("/v1/panels/bench/uploads", panel));
+                System.out.printf(Locale.ROOT, "ingest: %d rows, job %.1f s%n", (long) securities * dates, BenchClient.jobSeconds(ingest));
+                http.awaitJob(http.define("mom", "{\"panel\":\"bench\",\"method\":\"sort\",\"signal\":\"momentum_12_1\","
+                        + "\"buckets\":5,\"weighting\":\"cap\",\"rebalance\":\"monthly\",\"cost_bps\":10}"));
+                new CrossSectionBench(http, winnow.jdbi()).run("bench", "mom");
                 System.out.printf(Locale.ROOT, "max heap (-Xmx) %d MB; peak resident set %s%n",
                         Runtime.getRuntime().maxMemory() >> 20, peakResidentSet());
             }

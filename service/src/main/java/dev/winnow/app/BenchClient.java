@@ -75,7 +75,21 @@ public final class BenchClient {
     /** A GET with the token. */
     public HttpResponse<String> get(String path) throws IOException, InterruptedException {
         return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).GET()
+                .timeout(Duration.ofSeconds(120)).build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    /** A PUT of a JSON body with the token (for a definition that starts no job, such as an external series). */
+    public HttpResponse<String> putJson(String path, String body) throws IOException, InterruptedException {
+        return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token)
+                .header("Content-Type", "application/json").PUT(HttpRequest.BodyPublishers.ofString(body))
                 .timeout(Duration.ofSeconds(60)).build(), HttpResponse.BodyHandlers.ofString());
+    }
+
+    /** A POST of a JSON body with the token. */
+    public HttpResponse<String> postJson(String path, String body) throws IOException, InterruptedException {
+        return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token)
+                .header("Content-Type", "application/json").POST(HttpRequest.BodyPublishers.ofString(body))
+                .timeout(Duration.ofSeconds(120)).build(), HttpResponse.BodyHandlers.ofString());
     }
 
     /** Waits for the job to succeed and returns it; throws when it fails. */

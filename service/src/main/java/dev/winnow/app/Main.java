@@ -22,7 +22,7 @@ public final class Main {
             case "demo" -> serve(config, true);
             case "bench" -> Bench.run(args);
             default -> {
-                System.err.println("usage: java -jar winnow.jar serve | demo | bench [securities] [dates] | bench serving");
+                System.err.println("usage: java -jar winnow.jar serve | demo | bench [securities] [dates] | bench serving | bench cross-section [securities] [dates]");
                 System.exit(2);
             }
         }

@@ -21,6 +21,7 @@ import dev.winnow.research.FactorLibrary;
 import dev.winnow.research.FactorPortfolios;
 import dev.winnow.research.PortfolioRiskStudy;
 import dev.winnow.research.FamaMacBethStudy;
+import dev.winnow.research.StudyThreads;
 import dev.winnow.research.InformationCoefficients;
 import dev.winnow.research.ModelTests;
 import dev.winnow.research.SeriesNames;
@@ -63,6 +64,7 @@ public final class Winnow implements AutoCloseable {
     private final JobQueue queue;
     private final String generatedAdminToken;
     private final DemoLoader demo;
+    private final StudyThreads studyThreads;
 
     private Winnow(Config config) throws IOException {
         requireWritable(config.dataDir());
@@ -115,14 +117,15 @@ public final class Winnow implements AutoCloseable {
         Breadth breadth = new Breadth(panels, factors);
         TrialLibrary library = new TrialLibrary(factors);
         Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
+        this.studyThreads = StudyThreads.perProcessor();
         SeriesNames seriesNames = new SeriesNames(factors);
         LoadingsService loadingsService = new LoadingsService(panels, factors, loadings, queue);
         FactorLibrary factorLibrary = new FactorLibrary(factors, seriesNames);
         this.http = ApiServer.create(new ApiServer.Dependencies(tokens, jobs, panels, factors, queue, spool, definitions,
                 library, new FactorEvidence(factors, breadth), breadth, new Themes(factors),
                 loadingsService, new SignalPreview(panels, factors),
-                new FamaMacBethStudy(panels, factors), new ModelTests(seriesNames), new FactorPortfolios(factors),
-                new InformationCoefficients(panels, factors), () -> health(jobs, spool), new FactorHoldings(builds, panels), families,
+                new FamaMacBethStudy(panels, factors, studyThreads), new ModelTests(seriesNames), new FactorPortfolios(factors),
+                new InformationCoefficients(panels, factors, studyThreads), () -> health(jobs, spool), new FactorHoldings(builds, panels), families,
                 factorLibrary, new PortfolioRiskStudy(loadingsService, factorLibrary)), config.bind(), config.port(),
                 new ApiServer.Serving(instance.role().servesApi(), metrics.registry(), metrics::scrape, instance.metricsPublic()));
     }
@@ -319,6 +322,7 @@ public final class Winnow implements AutoCloseable {
                 LOG.warn("could not close the change feed: {}", e.getMessage());
             }
         }
+        studyThreads.close();
         database.close();
         metrics.close();
     }

@@ -181,11 +181,7 @@ public record FactorDefinition(
         if (within != null) {
             columns.add(within);
         }
-        Universe u = effectiveUniverse();
-        columns.addAll(u.labelFilters().keySet());
-        if (u.segment() != null) {
-            columns.add(u.segment().column());
-        }
+        columns.addAll(effectiveUniverse().labelColumns());
         if (breakpoints != null) {
             columns.add(breakpoints.column());
         }

@@ -37,4 +37,13 @@ public record Universe(Double minMarketCap, Map<String, LabelFilter> labelFilter
     public Universe withSegment(LabelEquals value) {
         return new Universe(minMarketCap, labelFilters, sizeHalf, value);
     }
+
+    /** The label columns this universe reads: those its label filters name, and its segment's. */
+    public java.util.Set<String> labelColumns() {
+        java.util.Set<String> columns = new java.util.TreeSet<>(labelFilters.keySet());
+        if (segment != null) {
+            columns.add(segment.column());
+        }
+        return columns;
+    }
 }

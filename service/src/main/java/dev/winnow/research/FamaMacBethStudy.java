@@ -30,15 +30,18 @@ import java.util.Map;
  * return at R+1 (and a positive market_cap at R-(lag-1) for cap weighting, which is weighted least squares with those
  * caps as weights). With {@code standardize} each signal is z-scored over the period's sample first. A period with
  * n &lt;= k + 1 securities or a rank-deficient design is skipped and counted. The slopes' time series is summarised
- * by {@link EstimateSeries}.
+ * by {@link EstimateSeries}. The panel is read in grid order on the request's thread while the periods' fits run on
+ * the {@link StudyThreads}.
  */
 public final class FamaMacBethStudy {
     private final PanelStore panels;
     private final FactorStore factors;
+    private final StudyThreads threads;
 
-    public FamaMacBethStudy(PanelStore panels, FactorStore factors) {
+    public FamaMacBethStudy(PanelStore panels, FactorStore factors, StudyThreads threads) {
         this.panels = panels;
         this.factors = factors;
+        this.threads = threads;
     }
 
     public enum Weighting { EQUAL, CAP }
@@ -84,12 +87,18 @@ public final class FamaMacBethStudy {
         if (!problems.isEmpty()) {
             throw new InvalidRequestException(String.join("; ", problems) + ".");
         }
-        StorePanelSource source = new StorePanelSource(panels, panel.id());
+        Universe universe = request.universe() == null ? Universe.ALL : request.universe();
+        // only the columns the signals and the universe read are decoded
+        java.util.Set<String> columns = new java.util.TreeSet<>(universe.labelColumns());
+        for (Recipe recipe : request.signals().values()) {
+            columns.addAll(recipe.numberColumns());
+            columns.addAll(recipe.labelColumns());
+        }
+        StorePanelSource source = new StorePanelSource(panels, panel.id(), columns::contains);
         List<CrossSectionSignal> signals = new ArrayList<>();
         for (Recipe recipe : request.signals().values()) {
             signals.add(CrossSectionSignal.of(recipe, source, signalFactors(recipe)));
         }
-        Universe universe = request.universe() == null ? Universe.ALL : request.universe();
         for (String column : universe.labelFilters().keySet()) {
             if (!schema.isLabel(column)) {
                 throw new InvalidRequestException("universe.labels names '" + column + "', which is not a label column of panel '"
@@ -99,7 +108,7 @@ public final class FamaMacBethStudy {
         if (request.weighting() == Weighting.CAP && !schema.hasMarketCap()) {
             throw new InvalidRequestException("weighting cap needs market_cap, and panel '" + panel.name() + "' has none; use equal.");
         }
-        return regress(source, panel.name(), names, signals, request, universe);
+        return regress(source, panel.name(), names, signals, request, universe, threads);
     }
 
     /** The spread series of every factor a recipe reads (trailing_beta's {@code against}). */
@@ -113,18 +122,47 @@ public final class FamaMacBethStudy {
         return out;
     }
 
-    static Result regress(PanelSource panel, String panelName, List<String> names, List<CrossSectionSignal> signals,
-                          Request request, Universe universe) {
-        List<LocalDate> grid = panel.dates();
-        int k = signals.size();
-        int lag = request.lag();
-        boolean cap = request.weighting() == Weighting.CAP;
-        List<LocalDate> dates = new ArrayList<>();
-        List<double[]> coefficients = new ArrayList<>();
+    /** One period's regression as run on a study thread: its fit, or null when it was skipped. */
+    private record Period(LocalDate returnDate, CrossSectionRegression fit, int securities) {
+    }
+
+    /** Sums over the periods run, in grid order. */
+    private static final class Tally {
+        final List<LocalDate> dates = new ArrayList<>();
+        final List<double[]> coefficients = new ArrayList<>();
         double sumR2 = 0.0;
         int r2Count = 0;
         long securities = 0;
         int skipped = 0;
+
+        void add(Period p) {
+            if (p.fit() == null) {
+                skipped++;
+                return;
+            }
+            dates.add(p.returnDate());
+            coefficients.add(p.fit().coefficients());
+            securities += p.securities();
+            if (!Double.isNaN(p.fit().rSquared())) {
+                sumR2 += p.fit().rSquared();
+                r2Count++;
+            }
+        }
+    }
+
+    /**
+     * The regressions of every period in grid order. This thread reads the cross-sections and evaluates the signals
+     * in order; each period's standardisation and fit run on the study threads, and their results are tallied in
+     * grid order, so every sum is taken in the same order as a sequential loop's.
+     */
+    static Result regress(PanelSource panel, String panelName, List<String> names, List<CrossSectionSignal> signals,
+                          Request request, Universe universe, StudyThreads threads) {
+        List<LocalDate> grid = panel.dates();
+        int k = signals.size();
+        int lag = request.lag();
+        boolean cap = request.weighting() == Weighting.CAP;
+        Tally tally = new Tally();
+        StudyThreads.Pipeline<Period> fits = threads.pipeline(tally::add);
         for (int r = 0; r + 1 < grid.size(); r++) {
             LocalDate returnDate = grid.get(r + 1);
             if ((request.from() != null && returnDate.isBefore(request.from())) || (request.to() != null && returnDate.isAfter(request.to()))) {
@@ -132,34 +170,33 @@ public final class FamaMacBethStudy {
             }
             int signalIndex = r - (lag - 1);
             if (signalIndex < 0) {
-                skipped++;
+                fits.submit(() -> new Period(returnDate, null, 0));
                 continue;
             }
             CrossSection at = panel.crossSection(signalIndex);
             CrossSection next = panel.crossSection(r + 1);
             Sample sample = sample(at, next, signalIndex, signals, universe, cap);
-            double[][] x = sample.x();
-            if (request.standardize()) {
-                for (int j = 0; j < k && x != null; j++) {
-                    x[j] = CrossSectionRegression.standardize(x[j]);
-                    if (x[j] == null) {
-                        x = null;
+            fits.submit(() -> {
+                double[][] x = sample.x();
+                if (request.standardize()) {
+                    for (int j = 0; j < k && x != null; j++) {
+                        x[j] = CrossSectionRegression.standardize(x[j]);
+                        if (x[j] == null) {
+                            x = null;
+                        }
                     }
                 }
-            }
-            CrossSectionRegression fit = x == null ? null : CrossSectionRegression.fit(sample.y(), x, sample.weights());
-            if (fit == null) {
-                skipped++;
-                continue;
-            }
-            dates.add(returnDate);
-            coefficients.add(fit.coefficients());
-            securities += sample.y().length;
-            if (!Double.isNaN(fit.rSquared())) {
-                sumR2 += fit.rSquared();
-                r2Count++;
-            }
+                CrossSectionRegression fit = x == null ? null : CrossSectionRegression.fit(sample.y(), x, sample.weights());
+                return new Period(returnDate, fit, sample.y().length);
+            });
         }
+        fits.finish();
+        List<LocalDate> dates = tally.dates;
+        List<double[]> coefficients = tally.coefficients;
+        double sumR2 = tally.sumR2;
+        int r2Count = tally.r2Count;
+        long securities = tally.securities;
+        int skipped = tally.skipped;
         int periods = dates.size();
         List<String> all = new ArrayList<>();
         all.add("intercept");

@@ -7,6 +7,7 @@ import dev.winnow.construct.FactorDefinition.Method;
 import dev.winnow.construct.SampleRows;
 import dev.winnow.stats.Correlations;
 import dev.winnow.stats.EstimateSeries;
+import dev.winnow.stats.KeyedValues;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -29,7 +30,10 @@ import java.util.Map;
  * grid index R+h, over the securities that have both. No value when fewer than {@code minSecurities} have both or
  * R+h is past the last date. The raw signal is used, so a low_minus_high factor that works has a negative IC. Each
  * horizon's series is summarised by {@link EstimateSeries} (ic_ir = mean / stdev). The panel is read once, in grid
- * order, keeping the samples of the last max(h) grid dates.
+ * order, keeping the signal samples of the last max(h) grid dates; each date's signal sample and return sample are
+ * sorted once ({@link KeyedValues}) and every horizon's Spearman ranks are read off those orders. The request's
+ * thread reads the panel and evaluates the signal in grid order; each date's return sample and correlations run on
+ * the {@link StudyThreads}, each writing only its own cells, so the answer does not depend on the threads.
  */
 public final class InformationCoefficients {
     public static final int MAX_HORIZONS = 24;
@@ -37,10 +41,12 @@ public final class InformationCoefficients {
 
     private final PanelStore panels;
     private final FactorStore factors;
+    private final StudyThreads threads;
 
-    public InformationCoefficients(PanelStore panels, FactorStore factors) {
+    public InformationCoefficients(PanelStore panels, FactorStore factors, StudyThreads threads) {
         this.panels = panels;
         this.factors = factors;
+        this.threads = threads;
     }
 
     public record Request(FactorVersionRecord version, List<Integer> horizons, Correlations.Method method, int minSecurities,
@@ -65,7 +71,8 @@ public final class InformationCoefficients {
         if (v.panelId() == null) {
             throw new InvalidRequestException("Factor '" + v.name() + "' has no panel.");
         }
-        StorePanelSource panel = new StorePanelSource(panels, v.panelId());
+        // only the columns the definition reads are decoded
+        StorePanelSource panel = new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
         Map<String, ReturnSeries> signalFactors = new LinkedHashMap<>();
         for (String name : def.signal().factors()) {
             FactorVersionRecord f = factors.catalog().current(name).orElseThrow(() -> new InvalidRequestException(
@@ -93,23 +100,39 @@ public final class InformationCoefficients {
         }
         if (!dates.isEmpty()) {
             int last = first + dates.size() - 1;
-            Map<Integer, Sample> samples = new HashMap<>();
+            Correlations.Method method = request.method();
+            Map<Integer, KeyedValues> samples = new HashMap<>();
+            StudyThreads.Pipeline<Void> pairs = threads.pipeline(done -> { });
             int start = Math.max(0, first - (lag - 1));
             int end = Math.min(grid.size() - 1, last + maxH);
             for (int t = start; t <= end; t++) {
                 CrossSection rows = panel.crossSection(t);
                 int r = t + lag - 1; // the formation date whose signal these rows hold
                 if (r >= first && r <= last) {
-                    samples.put(r, Sample.of(def, rows, signal.values(t, rows)));
+                    samples.put(r, signalSample(def, rows, signal.values(t, rows), method));
                 }
-                for (int k = 0; k < horizons.size(); k++) {
-                    Sample s = samples.get(t - horizons.get(k));
-                    if (s != null) {
-                        ic.get(k)[t - horizons.get(k) - first] = s.correlate(rows, request.method(), request.minSecurities());
-                    }
+                List<KeyedValues> earlier = new ArrayList<>();
+                for (int h : horizons) {
+                    earlier.add(samples.get(t - h));
                 }
                 samples.remove(t - maxH);
+                if (earlier.stream().allMatch(java.util.Objects::isNull)) {
+                    continue;
+                }
+                // the return sample's sort and the horizons' correlations run on the study threads
+                int cell = t - first; // the cell of horizon h is cell - h
+                pairs.submit(() -> {
+                    KeyedValues returns = returnSample(rows, method);
+                    for (int k = 0; k < earlier.size(); k++) {
+                        if (earlier.get(k) != null) {
+                            ic.get(k)[cell - horizons.get(k)] = KeyedValues.correlation(earlier.get(k), returns, method,
+                                    request.minSecurities());
+                        }
+                    }
+                    return null;
+                });
             }
+            pairs.finish();
         }
         List<EstimateSeries> summary = new ArrayList<>();
         for (double[] row : ic) {
@@ -123,41 +146,29 @@ public final class InformationCoefficients {
     }
 
     /** The securities (increasing ids) eligible at a formation and their signal values. */
-    private record Sample(int[] ids, double[] values) {
-        static Sample of(FactorDefinition def, CrossSection rows, double[] signal) {
-            int[] eligible = SampleRows.withSignal(def, rows, signal);
-            int[] ids = new int[eligible.length];
-            double[] values = new double[eligible.length];
-            for (int k = 0; k < eligible.length; k++) {
-                ids[k] = rows.securityIds()[eligible[k]];
-                values[k] = signal[eligible[k]];
-            }
-            return new Sample(ids, values);
+    private static KeyedValues signalSample(FactorDefinition def, CrossSection rows, double[] signal, Correlations.Method method) {
+        int[] eligible = SampleRows.withSignal(def, rows, signal);
+        int[] ids = new int[eligible.length];
+        double[] values = new double[eligible.length];
+        for (int k = 0; k < eligible.length; k++) {
+            ids[k] = rows.securityIds()[eligible[k]];
+            values[k] = signal[eligible[k]];
         }
+        return KeyedValues.of(ids, values, method);
+    }
 
-        /** The correlation with the returns in {@code rows} over the securities with both; NaN below the minimum. */
-        double correlate(CrossSection rows, Correlations.Method method, int minSecurities) {
-            int[] rowIds = rows.securityIds();
-            double[] returns = rows.returns();
-            double[] x = new double[ids.length];
-            double[] y = new double[ids.length];
-            int n = 0;
-            int j = 0;
-            for (int k = 0; k < ids.length; k++) {
-                while (j < rowIds.length && rowIds[j] < ids[k]) {
-                    j++;
-                }
-                if (j < rowIds.length && rowIds[j] == ids[k] && Double.isFinite(returns[j])) {
-                    x[n] = values[k];
-                    y[n++] = returns[j];
-                }
+    /** The securities (increasing ids) with a return at a date, and those returns. */
+    private static KeyedValues returnSample(CrossSection rows, Correlations.Method method) {
+        double[] returns = rows.returns();
+        int[] ids = new int[returns.length];
+        double[] values = new double[returns.length];
+        int n = 0;
+        for (int i = 0; i < returns.length; i++) {
+            if (Double.isFinite(returns[i])) {
+                ids[n] = rows.securityIds()[i];
+                values[n++] = returns[i];
             }
-            if (n < minSecurities) {
-                return Double.NaN;
-            }
-            double[] xs = Arrays.copyOf(x, n);
-            double[] ys = Arrays.copyOf(y, n);
-            return method == Correlations.Method.SPEARMAN ? Correlations.spearman(xs, ys) : Correlations.pearson(xs, ys);
         }
+        return KeyedValues.of(Arrays.copyOf(ids, n), Arrays.copyOf(values, n), method);
     }
 }

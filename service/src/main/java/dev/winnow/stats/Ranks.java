@@ -94,26 +94,77 @@ public final class Ranks {
      * returns how many were kept.
      */
     static int ranksAmongCommon(int[] order, double[] values, int[] position, double[] otherDense, double[] rankDense) {
+        int[] common = new int[position.length];
+        int kept = 0;
+        for (int k = 0; k < position.length; k++) {
+            boolean both = !Double.isNaN(otherDense[position[k]]);
+            common[k] = both ? position[k] : -1;
+            kept += both ? 1 : 0;
+        }
+        ranksAmong(order, values, distinct(order, values), common, rankDense);
+        return kept;
+    }
+
+    /**
+     * 1-based average ranks, among the positions i with {@code common[i] >= 0}, of values[i], written to
+     * out[common[i]]; {@code order} sorts all of {@code values} ({@link #sortedOrder}). Walking that order, each run
+     * of equal values (by ==) holds {@code kept} common positions after {@code assigned} smaller ones, which all get
+     * assigned + (kept + 1) / 2: the same exact half that {@link #averageRanks} gives the common values ranked on
+     * their own. {@code distinct} ({@link #distinct}) says there are no ties, and then each rank is a count.
+     */
+    static void ranksAmong(int[] order, double[] values, boolean distinct, int[] common, double[] out) {
+        int[] doubled = new int[out.length];
+        doubledRanksAmong(order, values, distinct, common, doubled);
+        for (int u : common) {
+            if (u >= 0) {
+                out[u] = doubled[u] / 2.0; // exact: an average rank is a whole number or a half
+            }
+        }
+    }
+
+    /** True when no two values are equal (by ==); {@code order} sorts them, so equal values would be adjacent. */
+    static boolean distinct(int[] order, double[] values) {
+        for (int m = 1; m < order.length; m++) {
+            if (values[order[m]] == values[order[m - 1]]) {
+                return false;
+            }
+        }
+        return true;
+    }
+
+    /**
+     * {@link #ranksAmong} as whole numbers: twice each average rank, 2 x assigned + kept + 1 (2 x (assigned + 1)
+     * without ties), written to out[common[i]].
+     */
+    static void doubledRanksAmong(int[] order, double[] values, boolean distinct, int[] common, int[] out) {
         int assigned = 0;
+        if (distinct) {
+            for (int i : order) {
+                int u = common[i];
+                if (u >= 0) {
+                    out[u] = 2 * ++assigned;
+                }
+            }
+            return;
+        }
         int k = 0;
         while (k < order.length) {
             double value = values[order[k]];
             int end = k;
             int kept = 0;
             while (end < order.length && values[order[end]] == value) {
-                kept += Double.isNaN(otherDense[position[order[end]]]) ? 0 : 1;
+                kept += common[order[end]] >= 0 ? 1 : 0;
                 end++;
             }
-            double averageRank = assigned + (kept + 1) / 2.0;
-            for (int j = k; j < end; j++) {
-                int u = position[order[j]];
-                if (!Double.isNaN(otherDense[u])) {
-                    rankDense[u] = averageRank;
+            int doubledRank = 2 * assigned + kept + 1;
+            for (int m = k; m < end; m++) {
+                int u = common[order[m]];
+                if (u >= 0) {
+                    out[u] = doubledRank;
                 }
             }
             assigned += kept;
             k = end;
         }
-        return assigned;
     }
 }

@@ -61,8 +61,10 @@ class CrashRecoveryEndToEndTest {
         startService();
         assertEquals("succeeded", await(upload("date,security,return,market_cap,score\n2019-12-31,A,0.01,100,1\n")).path("state").asText());
 
+        // 1.2 million rows: progress is reported every 65,536 rows, so even a fast ingest passes each kill point
+        // with reports to spare (at 500 dates the ingest took about a second and could finish between two polls)
         int securities = 400;
-        int dates = 500;
+        int dates = 3000;
         StringBuilder big = new StringBuilder("date,security,return,market_cap,score\n");
         java.time.LocalDate d = java.time.LocalDate.of(2020, 1, 1);
         for (int t = 0; t < dates; t++, d = d.plusDays(1)) {
