@@ -178,8 +178,10 @@ public final class CompareBench {
                 if (!winnow.ingestTimings.isEmpty()) {
                     System.out.println("  ingest job phases (ms): " + winnow.ingestTimings);
                 }
-                System.out.printf(Locale.ROOT, "Winnow store %.0f MB while running, %.0f MB after shutdown; peak RSS %d MB (-Xmx%s)%n",
-                        winnow.storeBytesRunning / 1e6, winnow.storeBytesClosed / 1e6, winnow.peakRssKb >> 10, xmx);
+                System.out.printf(Locale.ROOT, "Winnow store %.0f MB while running (panel and the sort), %.0f MB with ten factors, "
+                                + "%.0f MB after the revision, %.0f MB compacted, %.0f MB after shutdown; peak RSS %d MB (-Xmx%s)%n",
+                        winnow.storeBytesRunning / 1e6, winnow.storeBytesTenFactors / 1e6, winnow.storeBytesRevised / 1e6,
+                        winnow.storeBytesCompacted / 1e6, winnow.storeBytesClosed / 1e6, winnow.peakRssKb >> 10, xmx);
                 System.out.printf(Locale.ROOT, "10-factor revision of the first date (%d rows): job %.2f s%s%n",
                         securities, winnow.revisionJobSeconds, winnow.revisionNote);
                 System.out.printf(Locale.ROOT, "series check: %d dates in both, largest |Winnow - DuckDB| = %.3g%s%n",
@@ -266,6 +268,9 @@ public final class CompareBench {
         Map<?, ?> ingestTimings = Map.of();
         long storeBytesRunning;
         long storeBytesClosed;
+        long storeBytesTenFactors;
+        long storeBytesRevised;
+        long storeBytesCompacted;
         long peakRssKb;
         double revisionJobSeconds;
         double serviceCpuSeconds;
@@ -322,10 +327,15 @@ public final class CompareBench {
             for (String job : jobs) {
                 http.awaitJob(job);
             }
+            result.storeBytesTenFactors = directorySize(dataDir, null);
             Path revision = dataDir.resolveSibling("revision.csv");
             writeFirstDateRevision(csv, revision);
             JsonNode revise = http.awaitJob(upload(port, "/v1/panels/" + PANEL + "/uploads?mode=revise", revision));
             result.revisionJobSeconds = BenchClient.jobSeconds(revise);
+            result.storeBytesRevised = directorySize(dataDir, null);
+            // H2 keeps the pages that rewrites left behind until it is compacted (POST /v1/admin/compact)
+            http.awaitJob(http.postForJob("/v1/admin/compact"));
+            result.storeBytesCompacted = directorySize(dataDir, null);
             JsonNode factors = revise.path("report").path("factors");
             result.revisionNote = String.format(Locale.ROOT, " (%d factors, first rebuilt_from %s, recomputed_dates %s)",
                     factors.size(), factors.path(0).path("rebuilt_from"), factors.path(0).path("recomputed_dates"));

@@ -59,6 +59,13 @@ public final class BenchClient {
         return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
     }
 
+    /** A POST without a body that queues a job (an admin action); returns the job id of the 202 answer. */
+    public String postForJob(String path) throws IOException, InterruptedException {
+        HttpRequest request = HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token)
+                .POST(HttpRequest.BodyPublishers.noBody()).build();
+        return jobOf(client.send(request, HttpResponse.BodyHandlers.ofString()));
+    }
+
     /** A DELETE with the token; returns the status code. */
     public int delete(String path) throws IOException, InterruptedException {
         return client.send(HttpRequest.newBuilder(uri(path)).header("Authorization", "Bearer " + token).DELETE()

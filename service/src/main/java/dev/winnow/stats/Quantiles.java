@@ -101,45 +101,41 @@ public final class Quantiles {
                 insertionSort(a, lo, hi);
                 return;
             }
-            // median of three as the pivot; a three-way partition keeps runs of ties from degrading it
+            // Hoare's partition around the median of three: afterwards a[lo..j] <= pivot <= a[j+1..hi], lo <= j < hi
             int mid = (lo + hi) >>> 1;
             double x = a[lo];
             double y = a[mid];
             double z = a[hi];
             double pivot = x < y ? (y < z ? y : Math.max(x, z)) : (x < z ? x : Math.max(y, z));
-            int lt = lo;
-            int gt = hi;
-            int i = lo;
-            while (i <= gt) {
-                double v = a[i];
-                if (v < pivot) {
-                    a[i++] = a[lt];
-                    a[lt++] = v;
-                } else if (v > pivot) {
-                    a[i] = a[gt];
-                    a[gt--] = v;
-                } else {
+            int i = lo - 1;
+            int j = hi + 1;
+            while (true) {
+                do {
                     i++;
+                } while (a[i] < pivot);
+                do {
+                    j--;
+                } while (a[j] > pivot);
+                if (i >= j) {
+                    break;
                 }
+                double t = a[i];
+                a[i] = a[j];
+                a[j] = t;
             }
-            // a[lo..lt) < pivot, a[lt..gt] == pivot, a(gt..hi] > pivot
-            int left = rLo;
-            while (left <= rHi && ranks[left] < lt) {
-                left++;
+            int split = rLo;
+            while (split <= rHi && ranks[split] <= j) {
+                split++;
             }
-            int right = left;
-            while (right <= rHi && ranks[right] <= gt) {
-                right++;
-            }
-            // ranks[rLo..left) are left of the pivots, ranks[left..right) among them (done), ranks[right..rHi] right
-            if (left - rLo < rHi - right + 1) {
-                select(a, lo, lt - 1, ranks, rLo, left - 1);
-                lo = gt + 1;
-                rLo = right;
+            // ranks[rLo..split) lie in a[lo..j], ranks[split..rHi] in a[j+1..hi]: recurse into the side with fewer
+            if (split - rLo < rHi - split + 1) {
+                select(a, lo, j, ranks, rLo, split - 1);
+                lo = j + 1;
+                rLo = split;
             } else {
-                select(a, gt + 1, hi, ranks, right, rHi);
-                hi = lt - 1;
-                rHi = left - 1;
+                select(a, j + 1, hi, ranks, split, rHi);
+                hi = j;
+                rHi = split - 1;
             }
         }
     }

@@ -17,12 +17,14 @@ import static org.junit.jupiter.api.Assertions.assertEquals;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 /**
- * Every answer record of {@code api} names its fields in snake_case, one underscore before each capital of the
+ * Every answer record of {@code api} (and every record of {@code research} that declares its wire names) names its fields in snake_case, one underscore before each capital of the
  * component's name ({@code nwTStat} is {@code nw_t_stat}); Jackson's snake_case strategy alone would write
  * {@code nw_tstat}, so a component with consecutive capitals needs an explicit name. Fields keep the components' order.
  */
 class WireNamesTest {
-    private static final Path CLASSES = Path.of("target/classes/dev/winnow/api");
+    private static final Path CLASSES = Path.of("target/classes/dev/winnow");
+    /** The packages whose records answers are made of. */
+    private static final List<String> PACKAGES = List.of("api", "research");
 
     static String snake(String camel) {
         StringBuilder out = new StringBuilder();
@@ -71,8 +73,8 @@ class WireNamesTest {
     }
 
     /**
-     * A record meant for the wire: it declares a naming strategy or a wire name, or is declared in a route class or a
-     * wire-form holder ({@code ...Routes}, {@code ...Wire}, {@code ...Json}, {@code Accepted}).
+     * A record meant for the wire: it declares a naming strategy or a wire name, or is declared in an api route class
+     * or wire-form holder ({@code ...Routes}, {@code ...Wire}, {@code ...Json}, {@code Accepted}).
      */
     private static boolean answer(Class<?> type) {
         if (type.isAnnotationPresent(com.fasterxml.jackson.databind.annotation.JsonNaming.class)) {
@@ -83,6 +85,9 @@ class WireNamesTest {
                 return true;
             }
         }
+        if (type.getPackageName().endsWith(".research")) {
+            return false;
+        }
         Class<?> outer = type.getEnclosingClass();
         String name = outer == null ? "" : outer.getSimpleName();
         return name.endsWith("Routes") || name.endsWith("Wire") || name.endsWith("Json") || name.equals("Accepted");
@@ -90,10 +95,12 @@ class WireNamesTest {
 
     private static List<Class<?>> apiClasses() throws IOException, ClassNotFoundException {
         List<Class<?>> out = new ArrayList<>();
-        try (Stream<Path> files = Files.list(CLASSES)) {
-            for (Path f : files.filter(p -> p.toString().endsWith(".class")).toList()) {
-                String simple = f.getFileName().toString().replace(".class", "");
-                out.add(Class.forName("dev.winnow.api." + simple.replace('/', '.'), false, WireNamesTest.class.getClassLoader()));
+        for (String pkg : PACKAGES) {
+            try (Stream<Path> files = Files.list(CLASSES.resolve(pkg))) {
+                for (Path f : files.filter(p -> p.toString().endsWith(".class")).toList()) {
+                    String simple = f.getFileName().toString().replace(".class", "");
+                    out.add(Class.forName("dev.winnow." + pkg + "." + simple, false, WireNamesTest.class.getClassLoader()));
+                }
             }
         }
         return out;
