@@ -152,7 +152,7 @@ public final class FamaMacBethStudy {
 
     /**
      * The regressions of every period in grid order. This thread reads the cross-sections and evaluates the signals
-     * in order; each period's standardisation and fit run on the study threads, and their results are tallied in
+     * in order; each period's sample, standardisation and fit run on the study threads, and their results are tallied in
      * grid order, so every sum is taken in the same order as a sequential loop's.
      */
     static Result regress(PanelSource panel, String panelName, List<String> names, List<CrossSectionSignal> signals,
@@ -175,8 +175,13 @@ public final class FamaMacBethStudy {
             }
             CrossSection at = panel.crossSection(signalIndex);
             CrossSection next = panel.crossSection(r + 1);
-            Sample sample = sample(at, next, signalIndex, signals, universe, cap);
+            // the signals are evaluated here, in grid order; the sample is gathered and fitted on a study thread
+            double[][] columns = new double[signals.size()][];
+            for (int j = 0; j < columns.length; j++) {
+                columns[j] = signals.get(j).values(signalIndex, at);
+            }
             fits.submit(() -> {
+                Sample sample = sample(at, next, columns, universe, cap);
                 double[][] x = sample.x();
                 if (request.standardize()) {
                     for (int j = 0; j < k && x != null; j++) {
@@ -220,13 +225,8 @@ public final class FamaMacBethStudy {
     }
 
     /** The period's regression sample: rows of {@code at} in the universe with every signal finite and a return in {@code next}. */
-    private static Sample sample(CrossSection at, CrossSection next, int signalIndex, List<CrossSectionSignal> signals,
-                                 Universe universe, boolean cap) {
+    private static Sample sample(CrossSection at, CrossSection next, double[][] columns, Universe universe, boolean cap) {
         int[] rows = SampleRows.inUniverse(universe, at);
-        double[][] columns = new double[signals.size()][];
-        for (int j = 0; j < columns.length; j++) {
-            columns[j] = signals.get(j).values(signalIndex, at);
-        }
         double[] caps = at.marketCaps();
         int[] ids = at.securityIds();
         int[] nextIds = next.securityIds();
