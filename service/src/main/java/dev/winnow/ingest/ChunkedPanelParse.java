@@ -515,16 +515,7 @@ final class ChunkedPanelParse {
     }
 
     private int idFor(String code) throws SinkException {
-        Integer id = idsByCode.get(code);
-        if (id == null) {
-            try {
-                id = securityIds.idFor(code);
-            } catch (Exception storeFailure) {
-                throw new SinkException(storeFailure);
-            }
-            idsByCode.put(code, id);
-        }
-        return id;
+        return PanelSecondPass.idFor(idsByCode, securityIds, code);
     }
 
     private final Map<Integer, String> codesById = new HashMap<>();
@@ -556,12 +547,7 @@ final class ChunkedPanelParse {
         if (!emitting) {
             return;
         }
-        try {
-            sink.accept(cs);
-        } catch (Exception storeFailure) {
-            throw new SinkException(storeFailure);
-        }
-        rowsEmitted += cs.size();
+        rowsEmitted += PanelSecondPass.emit(sink, cs);
     }
 
     private String codeOf(int securityId) {

@@ -211,16 +211,7 @@ final class PanelSecondPass {
 
     private int idOf(CsvTokenizer csv, int field) throws SinkException {
         String code = trimmed(csv, field);
-        Integer id = idsByCode.get(code);
-        if (id == null) {
-            try {
-                id = securityIds.idFor(code);
-            } catch (Exception storeFailure) {
-                throw new SinkException(storeFailure);
-            }
-            idsByCode.put(code, id);
-        }
-        return id;
+        return idFor(idsByCode, securityIds, code);
     }
 
     /** The cell's text without surrounding spaces and tabs, shared between equal cells; null when empty. */
@@ -250,12 +241,7 @@ final class PanelSecondPass {
         if (!emitting) {
             return;
         }
-        try {
-            sink.accept(crossSection);
-        } catch (Exception storeFailure) {
-            throw new SinkException(storeFailure);
-        }
-        rowsEmitted += crossSection.size();
+        rowsEmitted += emit(sink, crossSection);
     }
 
     /** The code behind an id, by a reverse map built when the first duplicate needs it. */
@@ -264,6 +250,30 @@ final class PanelSecondPass {
     }
 
     /** The code behind an id, by a reverse map ({@code codesById}, rebuilt when codes were added) of {@code idsByCode}. */
+    /** The id of a security code: from {@code idsByCode} when seen before, else from the store, then remembered. */
+    static int idFor(Map<String, Integer> idsByCode, SecurityIds securityIds, String code) throws SinkException {
+        Integer id = idsByCode.get(code);
+        if (id == null) {
+            try {
+                id = securityIds.idFor(code);
+            } catch (Exception storeFailure) {
+                throw new SinkException(storeFailure);
+            }
+            idsByCode.put(code, id);
+        }
+        return id;
+    }
+
+    /** Hands one cross-section to the sink; returns its rows. */
+    static int emit(CrossSectionSink sink, CrossSection crossSection) throws SinkException {
+        try {
+            sink.accept(crossSection);
+        } catch (Exception storeFailure) {
+            throw new SinkException(storeFailure);
+        }
+        return crossSection.size();
+    }
+
     static String codeOf(Map<String, Integer> idsByCode, Map<Integer, String> codesById, int securityId) {
         if (codesById.size() != idsByCode.size()) {
             codesById.clear();
