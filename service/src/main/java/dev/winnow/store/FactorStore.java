@@ -359,30 +359,9 @@ public final class FactorStore {
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
             deleteFrom(h, "factor_portfolio_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             insertReturns(h, factorId, version, build.returns());
-            PreparedBatch pb = h.prepareBatch("INSERT INTO factor_portfolio_returns (factor_id, version, portfolio, obs_date, ret) "
-                    + "VALUES (:f, :v, :p, :d, :r)");
-            for (StoredPortfolioReturn r : build.portfolioReturns()) {
-                pb.bind("f", factorId).bind("v", version).bind("p", r.portfolio()).bind("d", r.date()).bind("r", r.value()).add();
-            }
-            if (!build.portfolioReturns().isEmpty()) {
-                pb.execute();
-            }
-            PreparedBatch tb = h.prepareBatch("INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (:f, :v, :d, :t)");
-            for (StoredTurnover t : build.turnover()) {
-                tb.bind("f", factorId).bind("v", version).bind("d", t.formationDate()).bind("t", t.turnover()).add();
-            }
-            if (!build.turnover().isEmpty()) {
-                tb.execute();
-            }
-            PreparedBatch cb = h.prepareBatch("INSERT INTO factor_checkpoints (factor_id, version, processed_dates, last_date, "
-                    + "observations, periods_without_return, state) VALUES (:f, :v, :n, :d, :o, :m, :s)");
-            for (StoredCheckpoint c : build.checkpoints()) {
-                cb.bind("f", factorId).bind("v", version).bind("n", c.processedDates()).bind("d", c.lastDate())
-                        .bind("o", c.observations()).bind("m", c.periodsWithoutReturn()).bind("s", c.state()).add();
-            }
-            if (!build.checkpoints().isEmpty()) {
-                cb.execute();
-            }
+            insertPortfolioReturns(h, factorId, version, build.portfolioReturns());
+            insertTurnover(h, factorId, version, build.turnover());
+            insertCheckpoints(h, factorId, version, build.checkpoints());
             h.createUpdate("UPDATE factor_versions SET status = 'ready', data_version = data_version + 1, engine_state = :s, "
                             + "build_report = :r, built_at = :now WHERE factor_id = :f AND version = :v")
                     .bind("s", build.engineState()).bind("r", build.reportJson()).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
@@ -444,22 +423,92 @@ public final class FactorStore {
         announce();
     }
 
-    private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
-        if (returns.isEmpty()) {
+    /**
+     * Rows per JDBC batch when a build is saved: large enough that the driver's per-batch work is negligible, small
+     * enough that a batch's parameters stay a few hundred kilobytes.
+     */
+    private static final int BATCH_ROWS = 4096;
+
+    /**
+     * Inserts a version's rows through one plain JDBC prepared statement in batches of {@link #BATCH_ROWS}: a build
+     * saves tens of thousands of rows, and binding them by name costs more than the store's own work on them. The
+     * statement's first two parameters are the factor id and the version; the binder sets the others.
+     */
+    private static <T> void insertRows(Handle h, String sql, long factorId, int version, List<T> rows, RowBinder<T> binder) {
+        if (rows.isEmpty()) {
             return;
         }
-        PreparedBatch batch = h.prepareBatch("INSERT INTO factor_returns (factor_id, version, obs_date, spread, long_leg, short_leg, net) "
-                + "VALUES (:f, :v, :d, :s, :l, :sh, :n)");
-        for (StoredReturn r : returns) {
-            batch.bind("f", factorId).bind("v", version).bind("d", r.date()).bind("s", r.spread())
-                    .bind("l", nullable(r.longLeg())).bind("sh", nullable(r.shortLeg())).bind("n", nullable(r.net()))
-                    .add();
+        try (java.sql.PreparedStatement ps = h.getConnection().prepareStatement(sql)) {
+            ps.setLong(1, factorId);
+            ps.setInt(2, version);
+            int pending = 0;
+            for (T row : rows) {
+                binder.bind(ps, row);
+                ps.addBatch();
+                if (++pending == BATCH_ROWS) {
+                    ps.executeBatch();
+                    pending = 0;
+                }
+            }
+            if (pending > 0) {
+                ps.executeBatch();
+            }
+        } catch (SQLException e) {
+            throw new org.jdbi.v3.core.statement.UnableToExecuteStatementException(e, null);
         }
-        batch.execute();
     }
 
-    private static Double nullable(double v) {
-        return Double.isNaN(v) ? null : v;
+    @FunctionalInterface
+    private interface RowBinder<T> {
+        void bind(java.sql.PreparedStatement ps, T row) throws SQLException;
+    }
+
+    private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
+        insertRows(h, "INSERT INTO factor_returns (factor_id, version, obs_date, spread, long_leg, short_leg, net) "
+                + "VALUES (?, ?, ?, ?, ?, ?, ?)", factorId, version, returns, (ps, r) -> {
+                    ps.setObject(3, r.date());
+                    ps.setDouble(4, r.spread());
+                    setNullable(ps, 5, r.longLeg());
+                    setNullable(ps, 6, r.shortLeg());
+                    setNullable(ps, 7, r.net());
+                });
+    }
+
+    private static void insertPortfolioReturns(Handle h, long factorId, int version, List<StoredPortfolioReturn> returns) {
+        insertRows(h, "INSERT INTO factor_portfolio_returns (factor_id, version, portfolio, obs_date, ret) VALUES (?, ?, ?, ?, ?)",
+                factorId, version, returns, (ps, r) -> {
+                    ps.setString(3, r.portfolio());
+                    ps.setObject(4, r.date());
+                    ps.setDouble(5, r.value());
+                });
+    }
+
+    private static void insertTurnover(Handle h, long factorId, int version, List<StoredTurnover> turnover) {
+        insertRows(h, "INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (?, ?, ?, ?)",
+                factorId, version, turnover, (ps, t) -> {
+                    ps.setObject(3, t.formationDate());
+                    ps.setDouble(4, t.turnover());
+                });
+    }
+
+    private static void insertCheckpoints(Handle h, long factorId, int version, List<StoredCheckpoint> checkpoints) {
+        insertRows(h, "INSERT INTO factor_checkpoints (factor_id, version, processed_dates, last_date, observations, "
+                + "periods_without_return, state) VALUES (?, ?, ?, ?, ?, ?, ?)", factorId, version, checkpoints, (ps, c) -> {
+                    ps.setInt(3, c.processedDates());
+                    ps.setObject(4, c.lastDate());
+                    ps.setInt(5, c.observations());
+                    ps.setInt(6, c.periodsWithoutReturn());
+                    ps.setBytes(7, c.state());
+                });
+    }
+
+    /** A missing value (NaN) as SQL NULL, as the nullable leg and net columns hold it. */
+    private static void setNullable(java.sql.PreparedStatement ps, int index, double v) throws SQLException {
+        if (Double.isNaN(v)) {
+            ps.setNull(index, java.sql.Types.DOUBLE);
+        } else {
+            ps.setDouble(index, v);
+        }
     }
 
     public void markFailed(long factorId, int version, String reportJson) {
