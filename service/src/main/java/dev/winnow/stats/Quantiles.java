@@ -113,23 +113,12 @@ public final class Quantiles {
             double y = a[mid];
             double z = a[hi];
             double pivot = x < y ? (y < z ? y : Math.max(x, z)) : (x < z ? x : Math.max(y, z));
-            // afterwards a[lo..j) < pivot <= a[j..hi]; the pivot is one of the elements, so j <= hi
-            int j = lo;
-            for (int i = lo; i <= hi; i++) {
-                double v = a[i];
-                a[i] = a[j];
-                a[j] = v;
-                j += v < pivot ? 1 : 0;
-            }
+            // the pivot is one of the elements, so j <= hi
+            int j = partitionBelow(a, lo, hi, pivot);
             if (j == lo) {
-                // the pivot is the least element: its copies come first and are in place, which always makes progress
-                int k = lo;
-                for (int i = lo; i <= hi; i++) {
-                    double v = a[i];
-                    a[i] = a[k];
-                    a[k] = v;
-                    k += v == pivot ? 1 : 0;
-                }
+                // the pivot is the least element: its copies (the elements below the next double up) come first and
+                // are in place, which always makes progress
+                int k = partitionBelow(a, lo, hi, Math.nextUp(pivot));
                 while (rLo <= rHi && ranks[rLo] < k) {
                     rLo++;
                 }
@@ -152,6 +141,22 @@ public final class Quantiles {
                 rHi = split - 1;
             }
         }
+    }
+
+    /**
+     * Moves the elements of a[lo..hi] below the pivot to its front: afterwards a[lo..j) < pivot <= a[j..hi], j
+     * returned. A method of its own so that the compiler sees its loop alone and turns the comparison into a
+     * conditional move rather than a branch.
+     */
+    private static int partitionBelow(double[] a, int lo, int hi, double pivot) {
+        int j = lo;
+        for (int i = lo; i <= hi; i++) {
+            double v = a[i];
+            a[i] = a[j];
+            a[j] = v;
+            j += v < pivot ? 1 : 0;
+        }
+        return j;
     }
 
     private static void insertionSort(double[] a, int lo, int hi) {
