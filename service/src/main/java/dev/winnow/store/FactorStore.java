@@ -358,6 +358,7 @@ public final class FactorStore {
             deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
             deleteFrom(h, "factor_portfolio_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
+            deleteFrom(h, "factor_portfolio_dates", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             insertReturns(h, factorId, version, build.returns());
             insertPortfolioReturns(h, factorId, version, build.portfolioReturns());
             insertTurnover(h, factorId, version, build.turnover());
@@ -474,13 +475,60 @@ public final class FactorStore {
                 });
     }
 
+    /** One row per date of factor_portfolio_dates: every portfolio's return on it, packed ({@link #packPortfolios}). */
     private static void insertPortfolioReturns(Handle h, long factorId, int version, List<StoredPortfolioReturn> returns) {
-        insertRows(h, "INSERT INTO factor_portfolio_returns (factor_id, version, portfolio, obs_date, ret) VALUES (?, ?, ?, ?, ?)",
-                factorId, version, returns, (ps, r) -> {
-                    ps.setString(3, r.portfolio());
-                    ps.setObject(4, r.date());
-                    ps.setDouble(5, r.value());
+        Map<LocalDate, List<StoredPortfolioReturn>> byDate = new java.util.TreeMap<>();
+        for (StoredPortfolioReturn r : returns) {
+            byDate.computeIfAbsent(r.date(), d -> new ArrayList<>()).add(r);
+        }
+        List<Map.Entry<LocalDate, byte[]>> rows = new ArrayList<>(byDate.size());
+        byDate.forEach((date, sameDate) -> rows.add(Map.entry(date, packPortfolios(sameDate))));
+        insertRows(h, "INSERT INTO factor_portfolio_dates (factor_id, version, obs_date, packed) VALUES (?, ?, ?, ?)",
+                factorId, version, rows, (ps, r) -> {
+                    ps.setObject(3, r.getKey());
+                    ps.setBytes(4, r.getValue());
                 });
+    }
+
+    /** The format byte of a packed factor_portfolio_dates row. */
+    private static final int PACKED_PORTFOLIOS = 1;
+
+    /**
+     * One date's portfolio returns as the bytes of a factor_portfolio_dates row: the format byte, the number of
+     * portfolios, then each one's name (modified UTF-8, as {@link java.io.DataOutput#writeUTF}) and its return's 64
+     * bits, so the stored value reads back bit for bit.
+     */
+    static byte[] packPortfolios(List<StoredPortfolioReturn> sameDate) {
+        java.io.ByteArrayOutputStream bytes = new java.io.ByteArrayOutputStream(3 + sameDate.size() * 12);
+        try (java.io.DataOutputStream out = new java.io.DataOutputStream(bytes)) {
+            out.writeByte(PACKED_PORTFOLIOS);
+            out.writeShort(sameDate.size());
+            for (StoredPortfolioReturn r : sameDate) {
+                out.writeUTF(r.portfolio());
+                out.writeDouble(r.value());
+            }
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e); // not thrown by an in-memory stream
+        }
+        return bytes.toByteArray();
+    }
+
+    /** The portfolio returns of a packed row (see {@link #packPortfolios}), in the order they were packed. */
+    static List<StoredPortfolioReturn> unpackPortfolios(LocalDate date, byte[] packed) {
+        try (java.io.DataInputStream in = new java.io.DataInputStream(new java.io.ByteArrayInputStream(packed))) {
+            int format = in.readUnsignedByte();
+            if (format != PACKED_PORTFOLIOS) {
+                throw new IllegalStateException("stored portfolio returns of " + date + " have an unknown format " + format);
+            }
+            int count = in.readUnsignedShort();
+            List<StoredPortfolioReturn> out = new ArrayList<>(count);
+            for (int i = 0; i < count; i++) {
+                out.add(new StoredPortfolioReturn(date, in.readUTF(), in.readDouble()));
+            }
+            return out;
+        } catch (java.io.IOException e) {
+            throw new IllegalStateException("stored portfolio returns of " + date + " are cut short", e);
+        }
     }
 
     private static void insertTurnover(Handle h, long factorId, int version, List<StoredTurnover> turnover) {
@@ -609,11 +657,30 @@ public final class FactorStore {
             return cached.series();
         }
         Map<String, List<Point>> points = new java.util.TreeMap<>();
-        jdbi.useHandle(h -> h.createQuery("SELECT portfolio, obs_date, ret FROM factor_portfolio_returns "
-                        + "WHERE factor_id = :f AND version = :v ORDER BY portfolio, obs_date")
-                .bind("f", factorId).bind("v", version)
-                .map((rs, ctx) -> Map.entry(rs.getString(1), new Point(rs.getObject(2, LocalDate.class), rs.getDouble(3))))
-                .forEach(e -> points.computeIfAbsent(e.getKey(), k -> new ArrayList<>()).add(e.getValue())));
+        boolean[] both = new boolean[2];
+        jdbi.useHandle(h -> {
+            // rows of versions built before factor_portfolio_dates existed, one per portfolio and date
+            h.createQuery("SELECT portfolio, obs_date, ret FROM factor_portfolio_returns "
+                            + "WHERE factor_id = :f AND version = :v ORDER BY portfolio, obs_date")
+                    .bind("f", factorId).bind("v", version)
+                    .map((rs, ctx) -> Map.entry(rs.getString(1), new Point(rs.getObject(2, LocalDate.class), rs.getDouble(3))))
+                    .forEach(e -> {
+                        both[0] = true;
+                        points.computeIfAbsent(e.getKey(), k -> new ArrayList<>()).add(e.getValue());
+                    });
+            h.createQuery("SELECT obs_date, packed FROM factor_portfolio_dates WHERE factor_id = :f AND version = :v ORDER BY obs_date")
+                    .bind("f", factorId).bind("v", version)
+                    .map((rs, ctx) -> unpackPortfolios(rs.getObject(1, LocalDate.class), rs.getBytes(2)))
+                    .forEach(day -> {
+                        both[1] = true;
+                        for (StoredPortfolioReturn r : day) {
+                            points.computeIfAbsent(r.portfolio(), k -> new ArrayList<>()).add(new Point(r.date(), r.value()));
+                        }
+                    });
+        });
+        if (both[0] && both[1]) { // a version built before, extended since: its dates are split between the tables
+            points.values().forEach(list -> list.sort(java.util.Comparator.comparing(Point::date)));
+        }
         Map<String, ReturnSeries> out = new LinkedHashMap<>();
         points.forEach((name, list) -> {
             LocalDate[] dates = new LocalDate[list.size()];
