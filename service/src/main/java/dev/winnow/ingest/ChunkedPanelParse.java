@@ -356,7 +356,7 @@ final class ChunkedPanelParse {
         final ErrorCollector chunkErrors = new ErrorCollector();
         final boolean[] numbers = numberColumn.clone();
         final boolean[] labels = labelColumn.clone();
-        final TextCache codes = new TextCache(Integer.MAX_VALUE);
+        final TextCache codes = new TextCache(Integer.MAX_VALUE, codesInLastChunk);
         final TextCache[] labelTexts = new TextCache[labels.length];
         final LocalDate[] dateList = new LocalDate[64];
         int dateCount;
@@ -503,6 +503,9 @@ final class ChunkedPanelParse {
         meter.report(whole.rowsRead, whole.rowsRejected + duplicateRows, rowsEmitted);
     }
 
+    /** Distinct security codes of the last chunk taken back: the next chunks' code tables start that large. */
+    private volatile int codesInLastChunk;
+
     private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
         // a chunk whose dates go back gives up before any of its dates is handed over (most files not in
         // ascending blocks are found out here, in their first chunk, with nothing staged to discard)
@@ -512,6 +515,7 @@ final class ChunkedPanelParse {
                 throw new Unsuitable("dates not in ascending blocks");
             }
         }
+        codesInLastChunk = rows.codes.size();
         int[] idOf = new int[rows.codes.size()];
         for (int c = 0; c < idOf.length; c++) {
             idOf[c] = idFor(rows.codes.textAt(c));
