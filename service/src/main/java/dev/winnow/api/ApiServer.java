@@ -205,8 +205,12 @@ public final class ApiServer {
                 e.getMessage(), java.util.List.of()));
         config.routes.exception(UploadSpool.StorageFullException.class, (e, ctx) -> problem(ctx, 507, "Insufficient storage",
                 e.getMessage(), java.util.List.of()));
-        config.routes.exception(HttpResponseException.class, (e, ctx) -> problem(ctx, e.getStatus(), titleOf(e.getStatus()),
-                detailOf(e, ctx), java.util.List.of()));
+        config.routes.exception(HttpResponseException.class, (e, ctx) -> {
+            if (e.getStatus() == 413) {
+                Uploads.discardRest(ctx); // a JSON body past its limit, refused unread: see Uploads.DISCARD_LIMIT
+            }
+            problem(ctx, e.getStatus(), titleOf(e.getStatus()), detailOf(e, ctx), java.util.List.of());
+        });
         config.routes.exception(Exception.class, (e, ctx) -> {
             if (StorageFaults.isStorageFault(e)) {
                 StorageFaultLog.note(LOG, ctx.method() + " " + ctx.path(), e);

@@ -44,10 +44,10 @@ final class CrossSectionBench {
     /** Runs every figure; {@code panel} is a panel name and {@code factor} a sort factor on it with a column signal. */
     void run(String panel, String factor) throws Exception {
         Timing before = readPanel(panel);
-        Timing ic = time(1, 3, () -> get("/v1/factors/" + factor + "/ic?horizons=1,2,3,6,12"));
+        Timing ic = time(4, 5, () -> get("/v1/factors/" + factor + "/ic?horizons=1,2,3,6,12"));
         String body = "{\"panel\":\"" + panel + "\",\"signals\":{\"value\":\"book_to_price\",\"momentum\":\"momentum_12_1\","
                 + "\"profitability\":\"gross_profitability\"},\"standardize\":true}";
-        Timing fm = time(1, 3, () -> post("/v1/fama-macbeth", body));
+        Timing fm = time(4, 5, () -> post("/v1/fama-macbeth", body));
         Timing after = readPanel(panel);
         // the peer is read before and after the studies, so that a change in the machine's load shows
         Timing read = before.wall() <= after.wall() ? before : after;
@@ -222,17 +222,22 @@ final class CrossSectionBench {
      * Medians of a figure's runs: wall milliseconds, and milliseconds of CPU used by the whole process meanwhile (every
      * thread: the server's, the study threads', the client's), which the machine's load changes far less.
      */
-    record Timing(double wall, double cpu) {
+    /** @param first the wall time of the first (warm-up) run, as a fresh process answers it; NaN without warm-ups */
+    record Timing(double first, double wall, double cpu) {
         @Override
         public String toString() {
-            return String.format(Locale.ROOT, "median %.1f ms wall, %.1f ms process CPU", wall, cpu);
+            return String.format(Locale.ROOT, "median %.1f ms wall, %.1f ms process CPU", wall, cpu)
+                    + (Double.isNaN(first) ? "" : String.format(Locale.ROOT, " (first run %.0f ms)", first));
         }
     }
 
-    /** The medians of {@code runs} runs after {@code warmups} untimed ones. */
+    /** The medians of {@code runs} runs after {@code warmups} untimed ones (the JIT compiles the hot code meanwhile). */
     static Timing time(int warmups, int runs, Timed what) throws Exception {
+        double first = Double.NaN;
         for (int i = 0; i < warmups; i++) {
+            long t0 = System.nanoTime();
             what.run();
+            first = i == 0 ? (System.nanoTime() - t0) / 1e6 : first;
         }
         var os = (com.sun.management.OperatingSystemMXBean) java.lang.management.ManagementFactory.getOperatingSystemMXBean();
         double[] wall = new double[runs];
@@ -244,7 +249,7 @@ final class CrossSectionBench {
             wall[i] = (System.nanoTime() - t0) / 1e6;
             cpu[i] = (os.getProcessCpuTime() - c0) / 1e6;
         }
-        return new Timing(median(wall), median(cpu));
+        return new Timing(first, median(wall), median(cpu));
     }
 
     private static double median(double[] values) {

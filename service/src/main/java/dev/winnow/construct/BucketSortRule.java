@@ -35,15 +35,9 @@ final class BucketSortRule implements PortfolioRule {
             Arrays.setAll(held, j -> Holding.empty());
             return held;
         }
-        double[] cuts = cuts(signal, breakpointRows, buckets);
-        int[][] members = new int[buckets][eligible.length];
-        int[] counts = new int[buckets];
-        for (int i : eligible) {
-            int bucket = bucketOf(signal[i], cuts);
-            members[bucket - 1][counts[bucket - 1]++] = i;
-        }
+        int[][] members = membersOf(signal, eligible, cuts(signal, breakpointRows, buckets), buckets);
         for (int j = 0; j < buckets; j++) {
-            held[j] = Holding.of(rows, Arrays.copyOf(members[j], counts[j]), capWeighted);
+            held[j] = Holding.of(rows, members[j], capWeighted);
         }
         return held;
     }
@@ -67,15 +61,29 @@ final class BucketSortRule implements PortfolioRule {
      * the rows of bucket j, in the given order.
      */
     static int[][] bucketsOf(double[] signal, int[] rows, int buckets) {
-        double[] cuts = cuts(signal, rows, buckets);
-        int[][] members = new int[buckets][rows.length];
+        return membersOf(signal, rows, cuts(signal, rows, buckets), buckets);
+    }
+
+    /**
+     * The rows of each bucket on the given breakpoints, in the given order: members[j-1] holds bucket j. Counts
+     * first, so that each bucket's array is allocated at its size (not B arrays as long as all the rows).
+     */
+    private static int[][] membersOf(double[] signal, int[] rows, double[] cuts, int buckets) {
+        int[] bucket = new int[rows.length];
         int[] counts = new int[buckets];
-        for (int row : rows) {
-            int j = bucketOf(signal[row], cuts) - 1;
-            members[j][counts[j]++] = row;
+        for (int k = 0; k < rows.length; k++) {
+            int j = bucketOf(signal[rows[k]], cuts) - 1;
+            bucket[k] = j;
+            counts[j]++;
         }
+        int[][] members = new int[buckets][];
         for (int j = 0; j < buckets; j++) {
-            members[j] = Arrays.copyOf(members[j], counts[j]);
+            members[j] = new int[counts[j]];
+        }
+        int[] filled = new int[buckets];
+        for (int k = 0; k < rows.length; k++) {
+            int j = bucket[k];
+            members[j][filled[j]++] = rows[k];
         }
         return members;
     }

@@ -202,24 +202,40 @@ public sealed interface Recipe {
         }
     }
 
-    /** The mean of A over j = k-p+1 .. k (summed in increasing j, divided by p); missing unless all p values exist. */
-    record TrailingMean(Recipe of, int periods) implements Recipe {
-        public int lookback() {
-            return of.lookback() + periods - 1;
+    /**
+     * A statistic of A over the window of grid dates j = k-p+1 .. k, one value per security of date k; missing unless
+     * all p values exist. A record implementing it names A ({@code of}), p ({@code periods}) and the statistic.
+     */
+    sealed interface WindowStatistic extends Recipe {
+        Recipe of();
+
+        int periods();
+
+        /** The statistic of security i over the window (its columns in increasing j, each aligned to date k's ids). */
+        double over(double[][] window, int i);
+
+        default int lookback() {
+            return of().lookback() + periods() - 1;
         }
 
-        public List<Recipe> inputs() {
-            return List.of(of);
+        default List<Recipe> inputs() {
+            return List.of(of());
         }
 
-        public double[] evaluate(Context ctx, int k) {
-            double[][] window = Along.window(ctx, of, k, periods);
-            int n = ctx.rows(k).size();
-            double[] out = new double[n];
-            for (int i = 0; i < n; i++) {
-                out[i] = window == null ? Double.NaN : Along.mean(window, i);
+        default double[] evaluate(Context ctx, int k) {
+            double[][] window = Along.window(ctx, of(), k, periods());
+            double[] out = new double[ctx.rows(k).size()];
+            for (int i = 0; i < out.length; i++) {
+                out[i] = window == null ? Double.NaN : over(window, i);
             }
             return out;
+        }
+    }
+
+    /** The mean of A over j = k-p+1 .. k (summed in increasing j, divided by p); missing unless all p values exist. */
+    record TrailingMean(Recipe of, int periods) implements WindowStatistic {
+        public double over(double[][] window, int i) {
+            return Along.mean(window, i);
         }
     }
 
@@ -227,33 +243,15 @@ public sealed interface Recipe {
      * The sample standard deviation sqrt(sum (A_j - mean)^2 / (p - 1)) over j = k-p+1 .. k, two-pass; missing unless
      * all p values exist.
      */
-    record TrailingStdev(Recipe of, int periods) implements Recipe {
-        public int lookback() {
-            return of.lookback() + periods - 1;
-        }
-
-        public List<Recipe> inputs() {
-            return List.of(of);
-        }
-
-        public double[] evaluate(Context ctx, int k) {
-            double[][] window = Along.window(ctx, of, k, periods);
-            int n = ctx.rows(k).size();
-            double[] out = new double[n];
-            for (int i = 0; i < n; i++) {
-                if (window == null) {
-                    out[i] = Double.NaN;
-                    continue;
-                }
-                double mean = Along.mean(window, i);
-                double squares = 0.0;
-                for (double[] column : window) {
-                    double d = column[i] - mean;
-                    squares += d * d;
-                }
-                out[i] = Along.finite(Math.sqrt(squares / (periods - 1)));
+    record TrailingStdev(Recipe of, int periods) implements WindowStatistic {
+        public double over(double[][] window, int i) {
+            double mean = Along.mean(window, i);
+            double squares = 0.0;
+            for (double[] column : window) {
+                double d = column[i] - mean;
+                squares += d * d;
             }
-            return out;
+            return Along.finite(Math.sqrt(squares / (periods - 1)));
         }
     }
 

@@ -21,6 +21,7 @@ import java.util.HashMap;
 import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
+import java.util.concurrent.CompletableFuture;
 
 /**
  * Information coefficients of a factor's signal: for every grid index R (whatever the rebalancing calendar) and
@@ -32,8 +33,9 @@ import java.util.Map;
  * horizon's series is summarised by {@link EstimateSeries} (ic_ir = mean / stdev). The panel is read once, in grid
  * order, keeping the signal samples of the last max(h) grid dates; each date's signal sample and return sample are
  * sorted once ({@link KeyedValues}) and every horizon's Spearman ranks are read off those orders. The request's
- * thread reads the panel and evaluates the signal in grid order; each date's return sample and correlations run on
- * the {@link StudyThreads}, each writing only its own cells, so the answer does not depend on the threads.
+ * thread only reads the panel and evaluates the signal in grid order; each date's samples, their sorts and its
+ * correlations run on the {@link StudyThreads}, each task writing only its own cells, so the answer does not depend
+ * on the threads.
  */
 public final class InformationCoefficients {
     public static final int MAX_HORIZONS = 24;
@@ -101,32 +103,47 @@ public final class InformationCoefficients {
         if (!dates.isEmpty()) {
             int last = first + dates.size() - 1;
             Correlations.Method method = request.method();
-            Map<Integer, KeyedValues> samples = new HashMap<>();
+            // each formation's signal sample, sorted on a study thread; later dates' correlations wait for it there
+            Map<Integer, CompletableFuture<KeyedValues>> samples = new HashMap<>();
             StudyThreads.Pipeline<Void> pairs = threads.pipeline(done -> { });
             int start = Math.max(0, first - (lag - 1));
             int end = Math.min(grid.size() - 1, last + maxH);
             for (int t = start; t <= end; t++) {
                 CrossSection rows = panel.crossSection(t);
                 int r = t + lag - 1; // the formation date whose signal these rows hold
-                if (r >= first && r <= last) {
-                    samples.put(r, signalSample(def, rows, signal.values(t, rows), method));
+                double[] signalValues = r >= first && r <= last ? signal.values(t, rows) : null; // in grid order, here
+                CompletableFuture<KeyedValues> own = signalValues == null ? null : new CompletableFuture<>();
+                if (own != null) {
+                    samples.put(r, own);
                 }
-                List<KeyedValues> earlier = new ArrayList<>();
+                List<CompletableFuture<KeyedValues>> earlier = new ArrayList<>();
                 for (int h : horizons) {
                     earlier.add(samples.get(t - h));
                 }
                 samples.remove(t - maxH);
-                if (earlier.stream().allMatch(java.util.Objects::isNull)) {
+                boolean correlate = earlier.stream().anyMatch(java.util.Objects::nonNull);
+                if (own == null && !correlate) {
                     continue;
                 }
-                // the return sample's sort and the horizons' correlations run on the study threads
+                // the sorts and the horizons' correlations run on the study threads; a task only waits for samples
+                // of tasks submitted before it, which the pool (first in, first out) has already started
                 int cell = t - first; // the cell of horizon h is cell - h
                 pairs.submit(() -> {
-                    KeyedValues returns = returnSample(rows, method);
-                    for (int k = 0; k < earlier.size(); k++) {
-                        if (earlier.get(k) != null) {
-                            ic.get(k)[cell - horizons.get(k)] = KeyedValues.correlation(earlier.get(k), returns, method,
-                                    request.minSecurities());
+                    if (own != null) {
+                        try {
+                            own.complete(signalSample(def, rows, signalValues, method));
+                        } catch (RuntimeException | Error e) {
+                            own.completeExceptionally(e);
+                            throw e;
+                        }
+                    }
+                    if (correlate) {
+                        KeyedValues returns = returnSample(rows, method);
+                        for (int k = 0; k < earlier.size(); k++) {
+                            if (earlier.get(k) != null) {
+                                ic.get(k)[cell - horizons.get(k)] = KeyedValues.correlation(earlier.get(k).join(), returns,
+                                        method, request.minSecurities());
+                            }
                         }
                     }
                     return null;

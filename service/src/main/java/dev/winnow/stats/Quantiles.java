@@ -51,7 +51,8 @@ public final class Quantiles {
      * Type-7 quantiles (the definition above) at several probabilities at once, by selection instead of a full sort:
      * only the order statistics x[floor h] and x[floor h + 1] of each probability are put in place, by a multiple
      * selection (Hoare's FIND, 1961, "Algorithm 65: Find", CACM 4(7): partition around a pivot and continue only in
-     * the parts that hold a wanted rank), expected time O(n log k) for k probabilities instead of O(n log n). Gives
+     * the parts that hold a wanted rank; the partition is branch-free, see {@code select}), expected time O(n log k)
+     * for k probabilities instead of O(n log n). Gives
      * exactly the values of {@link #type7Sorted} on the sorted sample (the same order statistics, the same formula; only
      * the sign of a zero may differ, which no comparison sees).
      *
@@ -94,50 +95,68 @@ public final class Quantiles {
         return out;
     }
 
-    /** Puts a[r] in its sorted place for every r in ranks[rLo..rHi] (ascending, all within [lo, hi]). */
+    /**
+     * Puts a[r] in its sorted place for every r in ranks[rLo..rHi] (ascending, all within [lo, hi]). Each step
+     * partitions around the median of three with Lomuto's scheme (Bentley, 1986, "Programming Pearls", column 10) in
+     * its branch-free form: every element is swapped into place and the boundary moves by the comparison's outcome,
+     * so the loop has no branch that depends on the data. On an unordered sample each comparison is a coin toss, and
+     * the mispredicted branches of Hoare's two inner loops cost several times the comparisons themselves.
+     */
     private static void select(double[] a, int lo, int hi, int[] ranks, int rLo, int rHi) {
         while (rLo <= rHi) {
             if (hi - lo < 24) {
                 insertionSort(a, lo, hi);
                 return;
             }
-            // Hoare's partition around the median of three: afterwards a[lo..j] <= pivot <= a[j+1..hi], lo <= j < hi
             int mid = (lo + hi) >>> 1;
             double x = a[lo];
             double y = a[mid];
             double z = a[hi];
             double pivot = x < y ? (y < z ? y : Math.max(x, z)) : (x < z ? x : Math.max(y, z));
-            int i = lo - 1;
-            int j = hi + 1;
-            while (true) {
-                do {
-                    i++;
-                } while (a[i] < pivot);
-                do {
-                    j--;
-                } while (a[j] > pivot);
-                if (i >= j) {
-                    break;
+            // the pivot is one of the elements, so j <= hi
+            int j = partitionBelow(a, lo, hi, pivot);
+            if (j == lo) {
+                // the pivot is the least element: its copies (the elements below the next double up) come first and
+                // are in place, which always makes progress
+                int k = partitionBelow(a, lo, hi, Math.nextUp(pivot));
+                while (rLo <= rHi && ranks[rLo] < k) {
+                    rLo++;
                 }
-                double t = a[i];
-                a[i] = a[j];
-                a[j] = t;
+                lo = k;
+                continue;
             }
             int split = rLo;
-            while (split <= rHi && ranks[split] <= j) {
+            while (split <= rHi && ranks[split] < j) {
                 split++;
             }
-            // ranks[rLo..split) lie in a[lo..j], ranks[split..rHi] in a[j+1..hi]: recurse into the side with fewer
+            // ranks[rLo..split) lie in a[lo..j), ranks[split..rHi] in a[j..hi], each part smaller than the whole:
+            // recurse into the side with fewer ranks
             if (split - rLo < rHi - split + 1) {
-                select(a, lo, j, ranks, rLo, split - 1);
-                lo = j + 1;
+                select(a, lo, j - 1, ranks, rLo, split - 1);
+                lo = j;
                 rLo = split;
             } else {
-                select(a, j + 1, hi, ranks, split, rHi);
-                hi = j;
+                select(a, j, hi, ranks, split, rHi);
+                hi = j - 1;
                 rHi = split - 1;
             }
         }
+    }
+
+    /**
+     * Moves the elements of a[lo..hi] below the pivot to its front: afterwards a[lo..j) < pivot <= a[j..hi], j
+     * returned. A method of its own so that the compiler sees its loop alone and turns the comparison into a
+     * conditional move rather than a branch.
+     */
+    private static int partitionBelow(double[] a, int lo, int hi, double pivot) {
+        int j = lo;
+        for (int i = lo; i <= hi; i++) {
+            double v = a[i];
+            a[i] = a[j];
+            a[j] = v;
+            j += v < pivot ? 1 : 0;
+        }
+        return j;
     }
 
     private static void insertionSort(double[] a, int lo, int hi) {

@@ -358,31 +358,11 @@ public final class FactorStore {
             deleteFrom(h, "factor_turnover", "formation_date", factorId, version, replaced.everything(), replaced.turnoverFrom());
             deleteFrom(h, "factor_checkpoints", "last_date", factorId, version, replaced.everything(), replaced.checkpointsFrom());
             deleteFrom(h, "factor_portfolio_returns", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
+            deleteFrom(h, "factor_portfolio_dates", "obs_date", factorId, version, replaced.everything(), replaced.returnsFrom());
             insertReturns(h, factorId, version, build.returns());
-            PreparedBatch pb = h.prepareBatch("INSERT INTO factor_portfolio_returns (factor_id, version, portfolio, obs_date, ret) "
-                    + "VALUES (:f, :v, :p, :d, :r)");
-            for (StoredPortfolioReturn r : build.portfolioReturns()) {
-                pb.bind("f", factorId).bind("v", version).bind("p", r.portfolio()).bind("d", r.date()).bind("r", r.value()).add();
-            }
-            if (!build.portfolioReturns().isEmpty()) {
-                pb.execute();
-            }
-            PreparedBatch tb = h.prepareBatch("INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (:f, :v, :d, :t)");
-            for (StoredTurnover t : build.turnover()) {
-                tb.bind("f", factorId).bind("v", version).bind("d", t.formationDate()).bind("t", t.turnover()).add();
-            }
-            if (!build.turnover().isEmpty()) {
-                tb.execute();
-            }
-            PreparedBatch cb = h.prepareBatch("INSERT INTO factor_checkpoints (factor_id, version, processed_dates, last_date, "
-                    + "observations, periods_without_return, state) VALUES (:f, :v, :n, :d, :o, :m, :s)");
-            for (StoredCheckpoint c : build.checkpoints()) {
-                cb.bind("f", factorId).bind("v", version).bind("n", c.processedDates()).bind("d", c.lastDate())
-                        .bind("o", c.observations()).bind("m", c.periodsWithoutReturn()).bind("s", c.state()).add();
-            }
-            if (!build.checkpoints().isEmpty()) {
-                cb.execute();
-            }
+            insertPortfolioReturns(h, factorId, version, build.portfolioReturns());
+            insertTurnover(h, factorId, version, build.turnover());
+            insertCheckpoints(h, factorId, version, build.checkpoints());
             h.createUpdate("UPDATE factor_versions SET status = 'ready', data_version = data_version + 1, engine_state = :s, "
                             + "build_report = :r, built_at = :now WHERE factor_id = :f AND version = :v")
                     .bind("s", build.engineState()).bind("r", build.reportJson()).bind("now", OffsetDateTime.now(ZoneOffset.UTC))
@@ -444,22 +424,139 @@ public final class FactorStore {
         announce();
     }
 
-    private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
-        if (returns.isEmpty()) {
+    /**
+     * Rows per JDBC batch when a build is saved: large enough that the driver's per-batch work is negligible, small
+     * enough that a batch's parameters stay a few hundred kilobytes.
+     */
+    private static final int BATCH_ROWS = 4096;
+
+    /**
+     * Inserts a version's rows through one plain JDBC prepared statement in batches of {@link #BATCH_ROWS}: a build
+     * saves tens of thousands of rows, and binding them by name costs more than the store's own work on them. The
+     * statement's first two parameters are the factor id and the version; the binder sets the others.
+     */
+    private static <T> void insertRows(Handle h, String sql, long factorId, int version, List<T> rows, RowBinder<T> binder) {
+        if (rows.isEmpty()) {
             return;
         }
-        PreparedBatch batch = h.prepareBatch("INSERT INTO factor_returns (factor_id, version, obs_date, spread, long_leg, short_leg, net) "
-                + "VALUES (:f, :v, :d, :s, :l, :sh, :n)");
-        for (StoredReturn r : returns) {
-            batch.bind("f", factorId).bind("v", version).bind("d", r.date()).bind("s", r.spread())
-                    .bind("l", nullable(r.longLeg())).bind("sh", nullable(r.shortLeg())).bind("n", nullable(r.net()))
-                    .add();
+        try (java.sql.PreparedStatement ps = h.getConnection().prepareStatement(sql)) {
+            ps.setLong(1, factorId);
+            ps.setInt(2, version);
+            int pending = 0;
+            for (T row : rows) {
+                binder.bind(ps, row);
+                ps.addBatch();
+                if (++pending == BATCH_ROWS) {
+                    ps.executeBatch();
+                    pending = 0;
+                }
+            }
+            if (pending > 0) {
+                ps.executeBatch();
+            }
+        } catch (SQLException e) {
+            throw new org.jdbi.v3.core.statement.UnableToExecuteStatementException(e, null);
         }
-        batch.execute();
     }
 
-    private static Double nullable(double v) {
-        return Double.isNaN(v) ? null : v;
+    @FunctionalInterface
+    private interface RowBinder<T> {
+        void bind(java.sql.PreparedStatement ps, T row) throws SQLException;
+    }
+
+    private static void insertReturns(Handle h, long factorId, int version, List<StoredReturn> returns) {
+        insertRows(h, "INSERT INTO factor_returns (factor_id, version, obs_date, spread, long_leg, short_leg, net) "
+                + "VALUES (?, ?, ?, ?, ?, ?, ?)", factorId, version, returns, (ps, r) -> {
+                    ps.setObject(3, r.date());
+                    ps.setDouble(4, r.spread());
+                    setNullable(ps, 5, r.longLeg());
+                    setNullable(ps, 6, r.shortLeg());
+                    setNullable(ps, 7, r.net());
+                });
+    }
+
+    /** One row per date of factor_portfolio_dates: every portfolio's return on it, packed ({@link #packPortfolios}). */
+    private static void insertPortfolioReturns(Handle h, long factorId, int version, List<StoredPortfolioReturn> returns) {
+        Map<LocalDate, List<StoredPortfolioReturn>> byDate = new java.util.TreeMap<>();
+        for (StoredPortfolioReturn r : returns) {
+            byDate.computeIfAbsent(r.date(), d -> new ArrayList<>()).add(r);
+        }
+        List<Map.Entry<LocalDate, byte[]>> rows = new ArrayList<>(byDate.size());
+        byDate.forEach((date, sameDate) -> rows.add(Map.entry(date, packPortfolios(sameDate))));
+        insertRows(h, "INSERT INTO factor_portfolio_dates (factor_id, version, obs_date, packed) VALUES (?, ?, ?, ?)",
+                factorId, version, rows, (ps, r) -> {
+                    ps.setObject(3, r.getKey());
+                    ps.setBytes(4, r.getValue());
+                });
+    }
+
+    /** The format byte of a packed factor_portfolio_dates row. */
+    private static final int PACKED_PORTFOLIOS = 1;
+
+    /**
+     * One date's portfolio returns as the bytes of a factor_portfolio_dates row: the format byte, the number of
+     * portfolios, then each one's name (modified UTF-8, as {@link java.io.DataOutput#writeUTF}) and its return's 64
+     * bits, so the stored value reads back bit for bit.
+     */
+    static byte[] packPortfolios(List<StoredPortfolioReturn> sameDate) {
+        java.io.ByteArrayOutputStream bytes = new java.io.ByteArrayOutputStream(3 + sameDate.size() * 12);
+        try (java.io.DataOutputStream out = new java.io.DataOutputStream(bytes)) {
+            out.writeByte(PACKED_PORTFOLIOS);
+            out.writeShort(sameDate.size());
+            for (StoredPortfolioReturn r : sameDate) {
+                out.writeUTF(r.portfolio());
+                out.writeDouble(r.value());
+            }
+        } catch (java.io.IOException e) {
+            throw new java.io.UncheckedIOException(e); // not thrown by an in-memory stream
+        }
+        return bytes.toByteArray();
+    }
+
+    /** The portfolio returns of a packed row (see {@link #packPortfolios}), in the order they were packed. */
+    static List<StoredPortfolioReturn> unpackPortfolios(LocalDate date, byte[] packed) {
+        try (java.io.DataInputStream in = new java.io.DataInputStream(new java.io.ByteArrayInputStream(packed))) {
+            int format = in.readUnsignedByte();
+            if (format != PACKED_PORTFOLIOS) {
+                throw new IllegalStateException("stored portfolio returns of " + date + " have an unknown format " + format);
+            }
+            int count = in.readUnsignedShort();
+            List<StoredPortfolioReturn> out = new ArrayList<>(count);
+            for (int i = 0; i < count; i++) {
+                out.add(new StoredPortfolioReturn(date, in.readUTF(), in.readDouble()));
+            }
+            return out;
+        } catch (java.io.IOException e) {
+            throw new IllegalStateException("stored portfolio returns of " + date + " are cut short", e);
+        }
+    }
+
+    private static void insertTurnover(Handle h, long factorId, int version, List<StoredTurnover> turnover) {
+        insertRows(h, "INSERT INTO factor_turnover (factor_id, version, formation_date, turnover) VALUES (?, ?, ?, ?)",
+                factorId, version, turnover, (ps, t) -> {
+                    ps.setObject(3, t.formationDate());
+                    ps.setDouble(4, t.turnover());
+                });
+    }
+
+    private static void insertCheckpoints(Handle h, long factorId, int version, List<StoredCheckpoint> checkpoints) {
+        insertRows(h, "INSERT INTO factor_checkpoints (factor_id, version, processed_dates, last_date, observations, "
+                + "periods_without_return, state) VALUES (?, ?, ?, ?, ?, ?, ?)", factorId, version, checkpoints, (ps, c) -> {
+                    ps.setInt(3, c.processedDates());
+                    ps.setObject(4, c.lastDate());
+                    ps.setInt(5, c.observations());
+                    ps.setInt(6, c.periodsWithoutReturn());
+                    ps.setBytes(7, c.state());
+                });
+    }
+
+    /** A missing value (NaN) as SQL NULL, as the nullable leg and net columns hold it. */
+    private static void setNullable(java.sql.PreparedStatement ps, int index, double v) throws SQLException {
+        if (Double.isNaN(v)) {
+            ps.setNull(index, java.sql.Types.DOUBLE);
+        } else {
+            ps.setDouble(index, v);
+        }
     }
 
     public void markFailed(long factorId, int version, String reportJson) {
@@ -560,11 +657,30 @@ public final class FactorStore {
             return cached.series();
         }
         Map<String, List<Point>> points = new java.util.TreeMap<>();
-        jdbi.useHandle(h -> h.createQuery("SELECT portfolio, obs_date, ret FROM factor_portfolio_returns "
-                        + "WHERE factor_id = :f AND version = :v ORDER BY portfolio, obs_date")
-                .bind("f", factorId).bind("v", version)
-                .map((rs, ctx) -> Map.entry(rs.getString(1), new Point(rs.getObject(2, LocalDate.class), rs.getDouble(3))))
-                .forEach(e -> points.computeIfAbsent(e.getKey(), k -> new ArrayList<>()).add(e.getValue())));
+        boolean[] both = new boolean[2];
+        jdbi.useHandle(h -> {
+            // rows of versions built before factor_portfolio_dates existed, one per portfolio and date
+            h.createQuery("SELECT portfolio, obs_date, ret FROM factor_portfolio_returns "
+                            + "WHERE factor_id = :f AND version = :v ORDER BY portfolio, obs_date")
+                    .bind("f", factorId).bind("v", version)
+                    .map((rs, ctx) -> Map.entry(rs.getString(1), new Point(rs.getObject(2, LocalDate.class), rs.getDouble(3))))
+                    .forEach(e -> {
+                        both[0] = true;
+                        points.computeIfAbsent(e.getKey(), k -> new ArrayList<>()).add(e.getValue());
+                    });
+            h.createQuery("SELECT obs_date, packed FROM factor_portfolio_dates WHERE factor_id = :f AND version = :v ORDER BY obs_date")
+                    .bind("f", factorId).bind("v", version)
+                    .map((rs, ctx) -> unpackPortfolios(rs.getObject(1, LocalDate.class), rs.getBytes(2)))
+                    .forEach(day -> {
+                        both[1] = true;
+                        for (StoredPortfolioReturn r : day) {
+                            points.computeIfAbsent(r.portfolio(), k -> new ArrayList<>()).add(new Point(r.date(), r.value()));
+                        }
+                    });
+        });
+        if (both[0] && both[1]) { // a version built before, extended since: its dates are split between the tables
+            points.values().forEach(list -> list.sort(java.util.Comparator.comparing(Point::date)));
+        }
         Map<String, ReturnSeries> out = new LinkedHashMap<>();
         points.forEach((name, list) -> {
             LocalDate[] dates = new LocalDate[list.size()];

@@ -7,15 +7,20 @@ import org.junit.jupiter.api.Test;
 import java.io.ByteArrayInputStream;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
+import java.io.InputStream;
+import java.io.OutputStream;
+import java.net.Socket;
 import java.net.http.HttpRequest;
 import java.nio.charset.StandardCharsets;
 import java.nio.file.Files;
 import java.nio.file.Path;
+import java.util.List;
 import java.util.zip.GZIPOutputStream;
 
 import static dev.winnow.api.TestServer.ADMIN;
 import static dev.winnow.api.TestServer.assertProblem;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 
 /**
@@ -76,6 +81,66 @@ class UploadLimitsEndToEndTest {
         assertProblem(chunked, 413);
         assertSpoolEmpty();
         assertEquals(404, server.get("/v1/panels/q").status());
+    }
+
+    /**
+     * A refused upload's body is read to its end before the refusal is answered, so the client reads the problem even
+     * when it is still sending, and the connection stays usable. A server that answered at the headers and closed
+     * would make a client still sending see a reset that can discard the answer (RFC 9112 section 9.6), and a client
+     * that put the connection back in its pool would send its next request on a dead connection. On a plain socket
+     * the test sends the headers and half the body, waits until the server has refused the upload at its headers (its
+     * declared length is past the limit; then, a wrong media type), sends the other half, reads the problem, and sends
+     * the next request on the same connection.
+     */
+    @Test
+    void aRefusedUploadIsAnsweredAfterItsBodyAndKeepsTheConnection() throws Exception {
+        serverWith(LIMIT, 0);
+        byte[] body = rows(2_000).getBytes(StandardCharsets.UTF_8);
+        try (Socket socket = new Socket("127.0.0.1", server.uri("/").getPort())) {
+            socket.setSoTimeout(20_000);
+            OutputStream out = socket.getOutputStream();
+            InputStream in = socket.getInputStream();
+            for (String type : List.of("text/csv", "text/plain")) {
+                out.write(("POST /v1/panels/q/uploads HTTP/1.1\r\nHost: 127.0.0.1\r\nAuthorization: Bearer " + ADMIN
+                        + "\r\nContent-Type: " + type + "\r\nContent-Length: " + body.length + "\r\n\r\n")
+                        .getBytes(StandardCharsets.US_ASCII));
+                out.write(body, 0, body.length / 2);
+                out.flush();
+                Thread.sleep(300); // the upload is refused at its headers; the rest of the body comes late
+                out.write(body, body.length / 2, body.length - body.length / 2);
+                out.flush();
+                String head = readHead(in);
+                assertTrue(head.startsWith("HTTP/1.1 " + (type.equals("text/csv") ? 413 : 415)), head);
+                assertFalse(head.toLowerCase(java.util.Locale.ROOT).contains("connection: close"), head);
+                in.readNBytes(contentLength(head));
+            }
+            out.write("GET /health HTTP/1.1\r\nHost: 127.0.0.1\r\n\r\n".getBytes(StandardCharsets.US_ASCII));
+            out.flush();
+            assertTrue(readHead(in).startsWith("HTTP/1.1 200"), "the connection still serves the next request");
+        }
+        assertSpoolEmpty();
+    }
+
+    /** The status line and headers of an HTTP/1.1 answer, up to the empty line. */
+    private static String readHead(InputStream in) throws IOException {
+        StringBuilder head = new StringBuilder();
+        int b;
+        while ((b = in.read()) >= 0) {
+            head.append((char) b);
+            if (head.length() >= 4 && head.substring(head.length() - 4).equals("\r\n\r\n")) {
+                return head.toString();
+            }
+        }
+        throw new IOException("the connection ended after " + head.length() + " bytes of the answer's head: " + head);
+    }
+
+    private static int contentLength(String head) {
+        for (String line : head.split("\r\n")) {
+            if (line.toLowerCase(java.util.Locale.ROOT).startsWith("content-length:")) {
+                return Integer.parseInt(line.substring("content-length:".length()).trim());
+            }
+        }
+        throw new AssertionError("no Content-Length in " + head);
     }
 
     @Test
