@@ -83,6 +83,16 @@ final class CsvTokenizer {
 
     /** Reads the next record; false at the end of input. */
     boolean next() throws IOException {
+        boolean read = nextRecord();
+        if (read && in == null && pos - recordStart >= MAX_RECORD_BYTES - 4) {
+            // the stream form fails such a record when its buffer cannot grow further; so does the in-place form, a
+            // little early rather than late (its caller, the one-pass parse, then leaves the file to the two passes)
+            throw new RecordTooLongException(recordLine);
+        }
+        return read;
+    }
+
+    private boolean nextRecord() throws IOException {
         count = 0;
         anyQuoted = false;
         malformedField = -1;
