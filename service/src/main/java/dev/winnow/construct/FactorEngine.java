@@ -221,6 +221,24 @@ public final class FactorEngine {
         }
     }
 
+    /** Builds over at least this many dates form ahead on a second thread ({@code Run.executeFormingAhead}). */
+    static final int FORMED_AHEAD_MIN_DATES = 64;
+
+    /** How many dates the forming thread may run ahead of the thread that holds the book. */
+    private static final int FORMED_AHEAD = 16;
+
+    /**
+     * The forming threads: one per build in progress, created when needed and kept a minute for the next build;
+     * daemon threads, so they never keep the process alive. None on a single processor, where builds stay on one
+     * thread.
+     */
+    private static final java.util.concurrent.ExecutorService FORMING_THREADS =
+            Runtime.getRuntime().availableProcessors() < 2 ? null : java.util.concurrent.Executors.newCachedThreadPool(r -> {
+                Thread t = new Thread(r, "factor-forming");
+                t.setDaemon(true);
+                return t;
+            });
+
     /** One pass over the grid from the start index to the end. */
     private static final class Run {
         private final PanelSource panel;
@@ -276,9 +294,13 @@ public final class FactorEngine {
         private LegWeights[] lastFormed;
 
         BuildResult execute() {
-            prime();
-            for (int t = start; t < dates.size(); t++) {
-                step(t);
+            if (dates.size() - start >= FORMED_AHEAD_MIN_DATES && FORMING_THREADS != null) {
+                executeFormingAhead();
+            } else {
+                prime();
+                for (int t = start; t < dates.size(); t++) {
+                    step(t);
+                }
             }
             int processed = dates.size();
             EngineState end = new EngineState(key, processed, processed == 0 ? null : dates.get(processed - 1), book);
@@ -324,6 +346,74 @@ public final class FactorEngine {
             window.put(t, rows);
             offer(t, rows);
             return formed;
+        }
+
+        /** What the forming thread hands over for grid date t: its rows and the formation it starts with, if any. */
+        private record Formed(CrossSection rows, Holding[] next, Throwable failure) {
+        }
+
+        /**
+         * The same steps as {@link #step} for every date, split over two threads: a forming thread reads the panel in
+         * date order, feeds the lag window and the signal evaluators and makes each formation (all of which depend
+         * only on the rows and signals before the date, never on what is held), while this thread takes them in
+         * order and does what depends on the book: turnover, the holding period's returns and the drift. Each
+         * computation is the one {@link #step} does on the same values, so the results are the same bits. The
+         * forming thread runs at most {@value #FORMED_AHEAD} dates ahead, and is stopped when this thread fails.
+         */
+        private void executeFormingAhead() {
+            java.util.concurrent.BlockingQueue<Formed> handOver = new java.util.concurrent.ArrayBlockingQueue<>(FORMED_AHEAD);
+            java.util.concurrent.Future<?> forming = FORMING_THREADS.submit(() -> {
+                try {
+                    prime();
+                    for (int t = start; t < dates.size(); t++) {
+                        CrossSection rows = read(t);
+                        Holding[] next = formsAt(t) ? form(t) : null;
+                        window.put(t, rows);
+                        offer(t, rows);
+                        handOver.put(new Formed(rows, next, null));
+                    }
+                } catch (InterruptedException stopped) {
+                    Thread.currentThread().interrupt();
+                } catch (Throwable e) {
+                    handOver.offer(new Formed(null, null, e)); // room: this thread stops at its first failure
+                }
+            });
+            boolean done = false;
+            try {
+                for (int t = start; t < dates.size(); t++) {
+                    Formed f = handOver.take();
+                    if (f.failure() instanceof RuntimeException r) {
+                        throw r;
+                    }
+                    if (f.failure() instanceof Error err) {
+                        throw err;
+                    }
+                    if (f.failure() != null) {
+                        throw new IllegalStateException(f.failure());
+                    }
+                    double cost = 0.0;
+                    if (f.next() != null) {
+                        double turnover = LegWeights.turnover(rule, f.next(), book);
+                        formations.add(new Formation(dates.get(t - 1), turnover));
+                        cost = costRate * turnover;
+                        book = f.next();
+                    }
+                    if (book != null) {
+                        hold(f.rows(), cost);
+                    }
+                }
+                forming.get(); // its last steps happen before this build's end
+                done = true;
+            } catch (InterruptedException e) {
+                Thread.currentThread().interrupt();
+                throw new IllegalStateException("interrupted while building", e);
+            } catch (java.util.concurrent.ExecutionException e) {
+                throw new IllegalStateException(e.getCause());
+            } finally {
+                if (!done) {
+                    forming.cancel(true);
+                }
+            }
         }
 
         /** Whether processing grid date t starts with a formation (dated t - 1). */

@@ -12,6 +12,12 @@ record LegWeights(int[] ids, double[] weights) {
     static final LegWeights EMPTY = new LegWeights(new int[0], new double[0]);
 
     static LegWeights of(Holding[] subs, int[] leg) {
+        if (leg.length == 1) {
+            LegWeights single = ofOne(subs[leg[0]]);
+            if (single != null) {
+                return single;
+            }
+        }
         double[] totals = new double[leg.length];
         int nonEmpty = 0;
         int members = 0;
@@ -53,6 +59,33 @@ record LegWeights(int[] ids, double[] weights) {
         for (int k = 0; k < members; k++) {
             ids[k] = (int) (packed[k] >> 32);
             weights[k] = raw[(int) packed[k]];
+        }
+        return new LegWeights(ids, weights);
+    }
+
+    /**
+     * A leg of one sub-portfolio whose members come in increasing id order (as holdings keep them): its values over
+     * their total, the same arithmetic as the general case (whose further division by the one non-empty
+     * sub-portfolio is exact), without the sort. Null when the ids are not in order, so that the general case sorts
+     * them.
+     */
+    private static LegWeights ofOne(Holding h) {
+        int n = h.size();
+        double total = 0.0;
+        for (int k = 0; k < n; k++) {
+            total += h.value(k);
+        }
+        if (!(total > 0)) { // a sub-portfolio wiped out (total loss) counts as empty
+            return EMPTY;
+        }
+        int[] ids = new int[n];
+        double[] weights = new double[n];
+        for (int k = 0; k < n; k++) {
+            ids[k] = h.id(k);
+            if (k > 0 && ids[k] <= ids[k - 1]) {
+                return null;
+            }
+            weights[k] = h.value(k) / total;
         }
         return new LegWeights(ids, weights);
     }

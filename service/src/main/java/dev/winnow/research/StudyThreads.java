@@ -37,9 +37,11 @@ public final class StudyThreads implements AutoCloseable {
     }
 
     /**
-     * A sequence of independent tasks whose results are consumed in submission order, on the submitting thread, with
-     * at most {@link #IN_FLIGHT} outstanding; so results (and sums over them) come out exactly as a sequential loop
-     * would give them.
+     * A sequence of tasks whose results are consumed in submission order, on the submitting thread, with at most
+     * {@link #IN_FLIGHT} outstanding; so results (and sums over them) come out exactly as a sequential loop would give
+     * them. A task may wait for a value that a task submitted before it produces (the pool takes tasks first in,
+     * first out, so that task has started), never for a later one. When a task fails, the others already submitted
+     * still run to their end, and then the first failure is thrown.
      */
     <T> Pipeline<T> pipeline(Consumer<T> inOrder) {
         return new Pipeline<>(inOrder);
@@ -72,7 +74,16 @@ public final class StudyThreads implements AutoCloseable {
             try {
                 result = pending.removeFirst().join();
             } catch (CompletionException e) {
-                pending.forEach(f -> f.cancel(false));
+                // the tasks already submitted run to their end before the failure propagates: none is cancelled,
+                // since a task may wait for the result of one submitted before it, and a skipped task would leave
+                // it waiting for ever on a thread of the shared pool
+                for (CompletableFuture<T> later : pending) {
+                    try {
+                        later.join();
+                    } catch (RuntimeException ignored) {
+                        // its own failure, or that of a task it waited for: the first failure is the one reported
+                    }
+                }
                 pending.clear();
                 if (e.getCause() instanceof RuntimeException r) {
                     throw r;

@@ -2,6 +2,7 @@ package dev.winnow.construct;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertTrue;
 
 import dev.winnow.stats.ReturnSeries;
 import java.util.List;
@@ -14,7 +15,9 @@ import org.junit.jupiter.api.TestFactory;
  * Consistency checks of segmented builds on the pandas-checked fixture definitions (ConstructionFixtureTest checks
  * the engine against the independent implementation): a build run in segments gives, to the last bit, the one-pass
  * build, each checkpoint equals the end state and counts of a build over that prefix of the grid, and a run resumed
- * from any checkpoint continues to the same end.
+ * from any checkpoint continues to the same end. The one-pass build forms ahead on a second thread (the panel has
+ * more than {@link FactorEngine#FORMED_AHEAD_MIN_DATES} dates) while segments of fewer dates run on one thread, so
+ * this also compares the two ways of running the engine.
  */
 class CheckpointedBuildTest {
     private static final InMemoryPanel PANEL = ConstructionFixtures.panel();
@@ -28,6 +31,7 @@ class CheckpointedBuildTest {
             ReturnSeries rf = def.riskFree() == null ? null : RISK_FREE;
             BuildResult full = FactorEngine.build(def, PANEL, rf, null);
             int total = PANEL.dates().size();
+            assertTrue(total >= FactorEngine.FORMED_AHEAD_MIN_DATES, "the one-pass build must form ahead");
             for (int spacing : new int[] {1, 2, 7, 27, total, total + 1}) {
                 String where = e.getKey() + " every " + spacing;
                 CheckpointedBuild.Result run = CheckpointedBuild.run(def, PANEL, rf, null, 0, 0, spacing);
