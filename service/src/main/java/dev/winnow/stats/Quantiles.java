@@ -85,8 +85,16 @@ public final class Quantiles {
             ranks[k++] = Math.min(j, n - 1);
             ranks[k++] = Math.min(j + 1, n - 1);
         }
-        ranks = Arrays.stream(ranks, 0, k).sorted().distinct().toArray();
-        select(values, 0, n - 1, ranks, 0, ranks.length - 1);
+        // ascending and distinct, by hand: a stream here made this method costly to compile (a build's first dates
+        // waited for several compilations of it)
+        Arrays.sort(ranks, 0, k);
+        int distinct = 0;
+        for (int i = 0; i < k; i++) {
+            if (distinct == 0 || ranks[i] != ranks[distinct - 1]) {
+                ranks[distinct++] = ranks[i];
+            }
+        }
+        select(values, 0, n - 1, ranks, 0, distinct - 1);
         for (int q = 0; q < probabilities.length; q++) {
             double h = (n - 1) * probabilities[q];
             int j = (int) Math.floor(h);
