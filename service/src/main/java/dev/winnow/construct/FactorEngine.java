@@ -358,30 +358,49 @@ public final class FactorEngine {
          * only on the rows and signals before the date, never on what is held), while this thread takes them in
          * order and does what depends on the book: turnover, the holding period's returns and the drift. Each
          * computation is the one {@link #step} does on the same values, so the results are the same bits. The
-         * forming thread runs at most {@value #FORMED_AHEAD} dates ahead, and is stopped when this thread fails.
+         * forming thread runs at most {@value #FORMED_AHEAD} dates ahead, and stops when this thread fails: told by
+         * a flag, never by an interrupt, since an interrupt that meets the panel's store inside a file read closes
+         * the store's file.
          */
         private void executeFormingAhead() {
             java.util.concurrent.BlockingQueue<Formed> handOver = new java.util.concurrent.ArrayBlockingQueue<>(FORMED_AHEAD);
+            java.util.concurrent.atomic.AtomicBoolean abandoned = new java.util.concurrent.atomic.AtomicBoolean();
             java.util.concurrent.Future<?> forming = FORMING_THREADS.submit(() -> {
                 try {
                     prime();
-                    for (int t = start; t < dates.size(); t++) {
+                    for (int t = start; t < dates.size() && !abandoned.get(); t++) {
                         CrossSection rows = read(t);
                         Holding[] next = formsAt(t) ? form(t) : null;
                         window.put(t, rows);
                         offer(t, rows);
-                        handOver.put(new Formed(rows, next, null));
+                        Formed f = new Formed(rows, next, null);
+                        while (!abandoned.get() && !handOver.offer(f, 100, java.util.concurrent.TimeUnit.MILLISECONDS)) {
+                            // the holding thread is behind; wait for room unless it gave up
+                        }
                     }
                 } catch (InterruptedException stopped) {
                     Thread.currentThread().interrupt();
                 } catch (Throwable e) {
-                    handOver.offer(new Formed(null, null, e)); // room: this thread stops at its first failure
+                    Formed failed = new Formed(null, null, e);
+                    try {
+                        while (!abandoned.get() && !handOver.offer(failed, 100, java.util.concurrent.TimeUnit.MILLISECONDS)) {
+                            // the holding thread takes what came before, then this failure
+                        }
+                    } catch (InterruptedException stopped) {
+                        Thread.currentThread().interrupt();
+                    }
                 }
             });
             boolean done = false;
             try {
                 for (int t = start; t < dates.size(); t++) {
-                    Formed f = handOver.take();
+                    Formed f;
+                    while ((f = handOver.poll(100, java.util.concurrent.TimeUnit.MILLISECONDS)) == null) {
+                        if (forming.isDone() && handOver.isEmpty()) {
+                            forming.get(); // its failure, if it ended by one it could not hand over
+                            throw new IllegalStateException("the forming thread ended before grid date #" + t);
+                        }
+                    }
                     if (f.failure() instanceof RuntimeException r) {
                         throw r;
                     }
@@ -411,7 +430,7 @@ public final class FactorEngine {
                 throw new IllegalStateException(e.getCause());
             } finally {
                 if (!done) {
-                    forming.cancel(true);
+                    abandoned.set(true);
                 }
             }
         }
