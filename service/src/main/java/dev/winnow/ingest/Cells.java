@@ -1,6 +1,9 @@
 package dev.winnow.ingest;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
 import java.nio.ByteBuffer;
+import java.nio.ByteOrder;
 import java.nio.charset.CharacterCodingException;
 import java.nio.charset.CharsetDecoder;
 import java.nio.charset.CodingErrorAction;
@@ -8,6 +11,8 @@ import java.nio.charset.StandardCharsets;
 
 /** Byte-level helpers for CSV cells: trimming spaces and tabs, ASCII comparison, UTF-8 checks. */
 final class Cells {
+
+    private static final VarHandle WORD = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
 
     private Cells() {
     }
@@ -58,6 +63,9 @@ final class Cells {
     /** True when bytes [s, e) are well-formed UTF-8. */
     static boolean isValidUtf8(byte[] b, int s, int e) {
         int i = s;
+        while (i <= e - 8 && ((long) WORD.get(b, i) & 0x8080808080808080L) == 0) {
+            i += 8; // eight ASCII bytes
+        }
         while (i < e && b[i] >= 0) {
             i++;
         }

@@ -3,7 +3,6 @@ package dev.winnow.ingest;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.store.Limits;
 
-import java.io.ByteArrayInputStream;
 import java.io.EOFException;
 import java.io.IOException;
 import java.io.InputStream;
@@ -146,7 +145,7 @@ final class ChunkedPanelParse {
         if (first == END_CHUNK) {
             throw new Unsuitable("empty upload");
         }
-        CsvTokenizer csv = new CsvTokenizer(new ByteArrayInputStream(first.bytes(), first.from(), first.length()));
+        CsvTokenizer csv = new CsvTokenizer(first.bytes(), first.from(), first.length());
         ErrorCollector headerErrors = new ErrorCollector();
         HeaderRow header = HeaderRow.read(csv, headerErrors, PanelLayout.REQUIRED_COLUMNS);
         if (header == null || (layout = PanelLayout.of(header, headerErrors)) == null) {
@@ -357,7 +356,7 @@ final class ChunkedPanelParse {
         final ErrorCollector chunkErrors = new ErrorCollector();
         final boolean[] numbers = numberColumn.clone();
         final boolean[] labels = labelColumn.clone();
-        final TextCache codes = new TextCache(Integer.MAX_VALUE);
+        final TextCache codes = new TextCache(Integer.MAX_VALUE, codesInLastChunk);
         final TextCache[] labelTexts = new TextCache[labels.length];
         final LocalDate[] dateList = new LocalDate[64];
         int dateCount;
@@ -370,6 +369,9 @@ final class ChunkedPanelParse {
         double[] caps;
         double[][] values;
         int[][] labelCodes;
+        long[] returnForms;
+        long[] capForms;
+        long[][] forms;
 
         ChunkRows(int expectedRows) {
             pass = new PanelFirstPass(upload, chunkErrors, ProgressMeter.silent());
@@ -378,17 +380,22 @@ final class ChunkedPanelParse {
             code = new int[expectedRows];
             returns = new double[expectedRows];
             caps = new double[expectedRows];
+            returnForms = new long[expectedRows];
+            capForms = new long[expectedRows];
             values = new double[numbers.length][];
+            forms = new long[numbers.length][];
             labelCodes = new int[labels.length][];
             for (int i = 0; i < numbers.length; i++) {
                 values[i] = numbers[i] ? new double[expectedRows] : null;
+                forms[i] = numbers[i] ? new long[expectedRows] : null;
                 labelCodes[i] = labels[i] ? new int[expectedRows] : null;
                 labelTexts[i] = labels[i] ? new TextCache(Integer.MAX_VALUE) : null;
             }
         }
 
         @Override
-        public void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] rowNumbers) {
+        public void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] rowNumbers,
+                        long retForm, long capForm, long[] rowForms) {
             if (n == lines.length) {
                 grow();
             }
@@ -403,21 +410,47 @@ final class ChunkedPanelParse {
             byte[] b = csv.buffer();
             int field = layout.securityField;
             int s = Cells.trimStart(b, csv.start(field), csv.end(field));
-            code[n] = codes.indexOf(b, s, Cells.trimEnd(b, s, csv.end(field)));
+            // a file in date blocks repeats the securities in the same order: guess the one after the last
+            int security = codes.indexOf(b, s, Cells.trimEnd(b, s, csv.end(field)), n == 0 ? 0 : code[n - 1] + 1);
+            code[n] = security;
             returns[n] = ret;
             caps[n] = cap;
+            returnForms[n] = retForm;
+            capForms[n] = capForm;
             for (int i = 0; i < numbers.length; i++) {
                 if (numbers[i]) {
                     values[i][n] = rowNumbers[i];
+                    forms[i][n] = rowForms[i];
                 }
                 if (labels[i]) {
                     int f = layout.extraFields[i];
                     int ls = Cells.trimStart(b, csv.start(f), csv.end(f));
                     int le = Cells.trimEnd(b, ls, csv.end(f));
-                    labelCodes[i][n] = ls == le ? -1 : labelTexts[i].indexOf(b, ls, le);
+                    // a security's label mostly stays what it was at the last date
+                    int[] last = labelOfSecurity(i, security);
+                    int labelCode = ls == le ? -1 : labelTexts[i].indexOf(b, ls, le, last[security]);
+                    labelCodes[i][n] = labelCode;
+                    last[security] = labelCode;
                 }
             }
             n++;
+        }
+
+        /** Per label column, the last label code seen for each security code of the chunk (-1: none yet). */
+        private int[][] lastLabels;
+
+        private int[] labelOfSecurity(int column, int security) {
+            if (lastLabels == null) {
+                lastLabels = new int[labels.length][];
+            }
+            int[] last = lastLabels[column];
+            if (last == null || security >= last.length) {
+                int old = last == null ? 0 : last.length;
+                last = last == null ? new int[Math.max(1024, security + 1)] : Arrays.copyOf(last, Math.max(old * 2, security + 1));
+                Arrays.fill(last, old, last.length, -1);
+                lastLabels[column] = last;
+            }
+            return last;
         }
 
         private void grow() {
@@ -427,9 +460,12 @@ final class ChunkedPanelParse {
             code = Arrays.copyOf(code, capacity);
             returns = Arrays.copyOf(returns, capacity);
             caps = Arrays.copyOf(caps, capacity);
+            returnForms = Arrays.copyOf(returnForms, capacity);
+            capForms = Arrays.copyOf(capForms, capacity);
             for (int i = 0; i < numbers.length; i++) {
                 if (values[i] != null) {
                     values[i] = Arrays.copyOf(values[i], capacity);
+                    forms[i] = Arrays.copyOf(forms[i], capacity);
                 }
                 if (labelCodes[i] != null) {
                     labelCodes[i] = Arrays.copyOf(labelCodes[i], capacity);
@@ -441,7 +477,7 @@ final class ChunkedPanelParse {
     /** Checks and reads one chunk (any thread). A date that changes more often than 64 times a chunk gives up. */
     private ChunkRows scan(Chunk chunk) throws IOException, Unsuitable {
         ChunkRows rows = new ChunkRows(Math.max(16, chunk.length() / 48));
-        CsvTokenizer csv = new CsvTokenizer(new ByteArrayInputStream(chunk.bytes(), chunk.from(), chunk.length()));
+        CsvTokenizer csv = new CsvTokenizer(chunk.bytes(), chunk.from(), chunk.length());
         try {
             rows.pass.scanChunk(csv, layout, rows);
         } catch (IllegalStateException tooManyDates) {
@@ -467,6 +503,9 @@ final class ChunkedPanelParse {
         meter.report(whole.rowsRead, whole.rowsRejected + duplicateRows, rowsEmitted);
     }
 
+    /** Distinct security codes of the last chunk taken back: the next chunks' code tables start that large. */
+    private volatile int codesInLastChunk;
+
     private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
         // a chunk whose dates go back gives up before any of its dates is handed over (most files not in
         // ascending blocks are found out here, in their first chunk, with nothing staged to discard)
@@ -476,6 +515,7 @@ final class ChunkedPanelParse {
                 throw new Unsuitable("dates not in ascending blocks");
             }
         }
+        codesInLastChunk = rows.codes.size();
         int[] idOf = new int[rows.codes.size()];
         for (int c = 0; c < idOf.length; c++) {
             idOf[c] = idFor(rows.codes.textAt(c));
@@ -490,7 +530,7 @@ final class ChunkedPanelParse {
                 }
                 finishBlock();
                 blockDate = date;
-                block = new DateBlock(lastBlockRows, numberCount, labelCount);
+                block = new DateBlock(lastBlockRows, numberCount, labelCount).withForms();
             }
             if (block.size >= Limits.MAX_ROWS_PER_DATE) {
                 // the two passes report this date (duplicates or its size) within the same bounded memory
@@ -502,9 +542,17 @@ final class ChunkedPanelParse {
             block.lines[k] = rows.lines[r] + lineOffset;
             block.returns[k] = rows.returns[r];
             block.marketCaps[k] = rows.caps[r];
+            boolean forms = block.keepsForms();
+            if (forms) {
+                block.returnForms[k] = rows.returnForms[r];
+                block.capForms[k] = rows.capForms[r];
+            }
             for (int i = 0; i < rows.numbers.length; i++) {
                 if (numberSlot[i] >= 0) {
                     block.numbers[numberSlot[i]][k] = rows.values[i][r];
+                    if (forms) {
+                        block.numberForms[numberSlot[i]][k] = rows.forms[i][r];
+                    }
                 }
                 if (labelSlot[i] >= 0) {
                     int labelCode = rows.labelCodes[i][r];
@@ -547,7 +595,7 @@ final class ChunkedPanelParse {
         if (!emitting) {
             return;
         }
-        rowsEmitted += PanelSecondPass.emit(sink, cs);
+        rowsEmitted += PanelSecondPass.emit(sink, cs, done.decimals());
     }
 
     private String codeOf(int securityId) {

@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.construct.CrossSection;
+import dev.winnow.store.SliceDecimals;
 
 /**
  * Receives a panel upload's cross-sections, one per date in ascending date order.
@@ -12,6 +13,14 @@ import dev.winnow.construct.CrossSection;
 public interface CrossSectionSink {
 
     void accept(CrossSection crossSection) throws Exception;
+
+    /**
+     * Receives a cross-section with the decimal forms the parser read its numbers in (null when it kept none), which
+     * a sink that encodes slices may pass on to the encoder; by default only the cross-section.
+     */
+    default void accept(CrossSection crossSection, SliceDecimals decimals) throws Exception {
+        accept(crossSection);
+    }
 
     /**
      * Forgets every cross-section accepted so far: the parser is starting over with another strategy for the same

@@ -2,6 +2,9 @@ package dev.winnow.ingest;
 
 import java.io.IOException;
 import java.io.InputStream;
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
+import java.nio.ByteOrder;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
 
@@ -22,6 +25,11 @@ final class CsvTokenizer {
     static final int MAX_RECORD_BYTES = 1 << 24;
     /** Non-zero for the bytes that end an unquoted run: comma, double quote, CR, LF. */
     private static final byte[] SPECIAL = new byte[256];
+
+    /** Eight bytes at a time, the first byte lowest, for finding the end of an unquoted run. */
+    private static final VarHandle WORD = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
+    private static final long ONES = 0x0101010101010101L;
+    private static final long HIGHS = 0x8080808080808080L;
 
     static {
         SPECIAL[','] = 1;
@@ -59,8 +67,32 @@ final class CsvTokenizer {
         this.in = in;
     }
 
+    /**
+     * Splits bytes [from, from + length) of {@code bytes} in place, without copying them; quoted fields are unescaped
+     * in that array. Positions ({@link #position()}) count from {@code from}.
+     */
+    CsvTokenizer(byte[] bytes, int from, int length) {
+        this.in = null;
+        this.buf = bytes;
+        this.pos = from;
+        this.recordStart = from;
+        this.limit = from + length;
+        this.dropped = -from;
+        this.eof = true;
+    }
+
     /** Reads the next record; false at the end of input. */
     boolean next() throws IOException {
+        boolean read = nextRecord();
+        if (read && in == null && pos - recordStart >= MAX_RECORD_BYTES - 4) {
+            // the stream form fails such a record when its buffer cannot grow further; so does the in-place form, a
+            // little early rather than late (its caller, the one-pass parse, then leaves the file to the two passes)
+            throw new RecordTooLongException(recordLine);
+        }
+        return read;
+    }
+
+    private boolean nextRecord() throws IOException {
         count = 0;
         anyQuoted = false;
         malformedField = -1;
@@ -164,11 +196,11 @@ final class CsvTokenizer {
     }
 
     private void skipByteOrderMark() throws IOException {
-        while (limit < 3 && !eof) {
+        while (limit - pos < 3 && !eof) {
             fill();
         }
-        if (limit >= 3 && (buf[0] & 0xff) == 0xEF && (buf[1] & 0xff) == 0xBB && (buf[2] & 0xff) == 0xBF) {
-            pos = 3;
+        if (limit - pos >= 3 && (buf[pos] & 0xff) == 0xEF && (buf[pos + 1] & 0xff) == 0xBB && (buf[pos + 2] & 0xff) == 0xBF) {
+            pos += 3;
         }
     }
 
@@ -178,6 +210,14 @@ final class CsvTokenizer {
             byte[] b = buf;
             int p = pos;
             int lim = limit;
+            while (p <= lim - 8) {
+                long special = specialBytes((long) WORD.get(b, p));
+                if (special != 0) {
+                    p += Long.numberOfTrailingZeros(special) >>> 3;
+                    break;
+                }
+                p += 8;
+            }
             while (p < lim && SPECIAL[b[p] & 0xff] == 0) {
                 p++;
             }
@@ -197,6 +237,20 @@ final class CsvTokenizer {
             }
         }
         addField(start, pos);
+    }
+
+    /**
+     * The high bit of each byte of {@code w} that may be a comma, double quote, CR or LF (the lowest flagged byte
+     * always is one; bytes above it may be flagged falsely): the zero-byte test (x - 0x01..01) &amp; ~x &amp; 0x80..80
+     * on w xor each delimiter repeated (H. S. Warren, Hacker's Delight, 2nd ed., section 6-1).
+     */
+    private static long specialBytes(long w) {
+        return zeroBytes(w ^ (',' * ONES)) | zeroBytes(w ^ ('"' * ONES)) | zeroBytes(w ^ ('\r' * ONES))
+                | zeroBytes(w ^ ('\n' * ONES));
+    }
+
+    private static long zeroBytes(long x) {
+        return (x - ONES) & ~x & HIGHS;
     }
 
     /** Reads a quoted field starting at the opening quote; false when the input ends inside it. */

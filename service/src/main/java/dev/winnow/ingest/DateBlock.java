@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.construct.CrossSection;
+import dev.winnow.store.SliceDecimals;
 import java.time.LocalDate;
 import java.util.Arrays;
 import java.util.LinkedHashMap;
@@ -9,6 +10,10 @@ import java.util.Map;
 /**
  * The rows of one date collected during the second pass, column by column in primitive arrays sized from the first
  * pass's row count. Rows arrive in file order; {@link #toCrossSection} sorts them by security id.
+ *
+ * <p>A block made {@link #withForms() with forms} also keeps the decimal form of each number
+ * ({@link NumberCell#decimal()}) for the slice encoder, while it holds at most {@value #MAX_ROWS_WITH_FORMS} rows;
+ * a larger block drops them (the encoder then finds them by trial), so they never add more than a few MB.
  */
 final class DateBlock {
 
@@ -24,6 +29,15 @@ final class DateBlock {
     final double[][] numbers;
     final String[][] labels;
     int size;
+    /** Decimal forms of the returns, market caps and number columns; null when not kept. */
+    long[] returnForms;
+    long[] capForms;
+    long[][] numberForms;
+    /** The row order of the last {@link #toCrossSection}, null when it kept the file order. */
+    private int[] order;
+
+    /** Rows beyond which a block stops keeping decimal forms. */
+    static final int MAX_ROWS_WITH_FORMS = 1 << 16;
 
     DateBlock(int rows, int numberColumns, int labelColumns) {
         ids = new int[rows];
@@ -32,6 +46,21 @@ final class DateBlock {
         marketCaps = new double[rows];
         numbers = new double[numberColumns][rows];
         labels = new String[labelColumns][rows];
+    }
+
+    /** Starts keeping decimal forms (call before the first row); a no-op for a block too large to keep them. */
+    DateBlock withForms() {
+        int rows = ids.length;
+        if (rows <= MAX_ROWS_WITH_FORMS) {
+            returnForms = new long[rows];
+            capForms = new long[rows];
+            numberForms = new long[numbers.length][rows];
+        }
+        return this;
+    }
+
+    boolean keepsForms() {
+        return returnForms != null;
     }
 
     /** Makes room for one more row, doubling the arrays when full (for blocks whose row count is not known ahead). */
@@ -50,6 +79,19 @@ final class DateBlock {
         for (int c = 0; c < labels.length; c++) {
             labels[c] = Arrays.copyOf(labels[c], capacity);
         }
+        if (returnForms != null) {
+            if (capacity > MAX_ROWS_WITH_FORMS) {
+                returnForms = null;
+                capForms = null;
+                numberForms = null;
+            } else {
+                returnForms = Arrays.copyOf(returnForms, capacity);
+                capForms = Arrays.copyOf(capForms, capacity);
+                for (int c = 0; c < numberForms.length; c++) {
+                    numberForms[c] = Arrays.copyOf(numberForms[c], capacity);
+                }
+            }
+        }
     }
 
     /** Cuts the arrays to the rows held, so that a block filled through {@link #ensureRoom} is full. */
@@ -67,6 +109,13 @@ final class DateBlock {
         for (int c = 0; c < labels.length; c++) {
             labels[c] = Arrays.copyOf(labels[c], size);
         }
+        if (returnForms != null) {
+            returnForms = Arrays.copyOf(returnForms, size);
+            capForms = Arrays.copyOf(capForms, size);
+            for (int c = 0; c < numberForms.length; c++) {
+                numberForms[c] = Arrays.copyOf(numberForms[c], size);
+            }
+        }
     }
 
     boolean isFull() {
@@ -80,6 +129,7 @@ final class DateBlock {
     CrossSection toCrossSection(LocalDate date, String[] numberNames, String[] labelNames,
                                 DuplicateListener duplicates) {
         int[] order = sortedOrder();
+        this.order = order;
         if (order != null && reportDuplicates(order, duplicates)) {
             return null;
         }
@@ -94,6 +144,21 @@ final class DateBlock {
         int[] sortedIds = order == null ? ids : Arrays.stream(order).map(i -> ids[i]).toArray();
         return new CrossSection(date, sortedIds, permuted(returns, order), permuted(marketCaps, order),
                 numberColumns, labelColumns);
+    }
+
+    /**
+     * The decimal forms of the cross-section the last {@link #toCrossSection} formed, in its row order (number
+     * columns in the order of its names); null when the block keeps none.
+     */
+    SliceDecimals decimals() {
+        if (returnForms == null) {
+            return null;
+        }
+        long[][] columns = new long[numberForms.length][];
+        for (int c = 0; c < columns.length; c++) {
+            columns[c] = permuted(numberForms[c], order);
+        }
+        return new SliceDecimals(permuted(returnForms, order), permuted(capForms, order), columns);
     }
 
     /** Row indexes by (id, file order), or null when the ids already increase strictly. */
@@ -137,6 +202,17 @@ final class DateBlock {
             return values;
         }
         double[] out = new double[order.length];
+        for (int i = 0; i < order.length; i++) {
+            out[i] = values[order[i]];
+        }
+        return out;
+    }
+
+    private static long[] permuted(long[] values, int[] order) {
+        if (order == null) {
+            return values;
+        }
+        long[] out = new long[order.length];
         for (int i = 0; i < order.length; i++) {
             out[i] = values[order[i]];
         }

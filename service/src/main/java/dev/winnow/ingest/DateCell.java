@@ -1,5 +1,8 @@
 package dev.winnow.ingest;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
+import java.nio.ByteOrder;
 import java.time.DateTimeException;
 import java.time.LocalDate;
 import java.util.HashMap;
@@ -21,6 +24,12 @@ final class DateCell {
     private int lastKey = -1;
     private LocalDate lastDate;
     private Kind kind;
+    /** The last cell's ten bytes when they were exactly a date's shape with nothing to trim (else lastBytesValid off). */
+    private long lastHead;
+    private short lastTail;
+    private boolean lastBytesValid;
+    private static final VarHandle HEAD = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
+    private static final VarHandle TAIL = MethodHandles.byteArrayViewVarHandle(short[].class, ByteOrder.LITTLE_ENDIAN);
 
     Kind kind() {
         return kind;
@@ -28,6 +37,13 @@ final class DateCell {
 
     /** Reads bytes [start, end); returns the date, or null when the cell is empty or not a date (see {@link #kind()}). */
     LocalDate read(byte[] b, int start, int end) {
+        // a panel repeats each date on row after row: the same ten bytes as the last cell give the same answer
+        if (lastBytesValid && end - start == 10 && (long) HEAD.get(b, start) == lastHead
+                && (short) TAIL.get(b, start + 8) == lastTail) {
+            kind = lastDate == NOT_A_DAY ? Kind.INVALID : Kind.DATE;
+            return lastDate == NOT_A_DAY ? null : lastDate;
+        }
+        lastBytesValid = false;
         int s = Cells.trimStart(b, start, end);
         int e = Cells.trimEnd(b, s, end);
         if (s == e) {
@@ -43,6 +59,11 @@ final class DateCell {
             LocalDate date = cache.computeIfAbsent(key, DateCell::toDate);
             lastKey = key;
             lastDate = date;
+        }
+        if (s == start && e == end) {
+            lastHead = (long) HEAD.get(b, start);
+            lastTail = (short) TAIL.get(b, start + 8);
+            lastBytesValid = true;
         }
         if (lastDate == NOT_A_DAY) {
             kind = Kind.INVALID;

@@ -1,6 +1,7 @@
 package dev.winnow.ingest;
 
 import dev.winnow.store.Limits;
+import dev.winnow.store.SliceDecimals;
 
 import java.io.EOFException;
 import java.io.IOException;
@@ -41,10 +42,18 @@ final class PanelFirstPass {
     private double rowCap;
     /** The numbers read from the extra columns of the current row (NaN for labels and missing cells). */
     double[] rowNumbers = new double[0];
+    /** Their decimal forms ({@link NumberCell#decimal()}), and those of the return and market cap. */
+    long[] rowForms = new long[0];
+    private long rowReturnForm;
+    private long rowCapForm;
 
-    /** Receives the rows of a scan that have no problem (so far: see {@link ExtraColumn} on deferred cells). */
+    /**
+     * Receives the rows of a scan that have no problem (so far: see {@link ExtraColumn} on deferred cells), with the
+     * decimal forms of their numbers ({@link NumberCell#decimal()}; {@code forms} parallel to {@code numbers}).
+     */
     interface RowListener {
-        void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] numbers);
+        void row(CsvTokenizer csv, long line, LocalDate date, double ret, double cap, double[] numbers,
+                 long retForm, long capForm, long[] forms);
     }
 
     PanelFirstPass(PanelUpload upload, ErrorCollector errors, ProgressMeter meter) {
@@ -64,6 +73,7 @@ final class PanelFirstPass {
             extras = extraColumns(layout);
             rowDeferred = new int[extras.length];
             rowNumbers = new double[extras.length];
+            rowForms = new long[extras.length];
             scanRows(csv);
             if (rowsRead == 0 && errors.isEmpty()) {
                 errors.add(header.line() + 1, null, Messages.noDataRows());
@@ -94,6 +104,7 @@ final class PanelFirstPass {
         extras = extraColumns(layout);
         rowDeferred = new int[extras.length];
         rowNumbers = new double[extras.length];
+        rowForms = new long[extras.length];
         scanRows(csv);
     }
 
@@ -150,7 +161,7 @@ final class PanelFirstPass {
             }
             finishRow();
             if (listener != null && !rowFailed) {
-                listener.row(csv, line, rowDate, rowReturn, rowCap, rowNumbers);
+                listener.row(csv, line, rowDate, rowReturn, rowCap, rowNumbers, rowReturnForm, rowCapForm, rowForms);
             }
             if (rowsRead % ProgressMeter.REPORT_EVERY == 0) {
                 meter.report(rowsRead, rowsRejected, 0);
@@ -169,9 +180,12 @@ final class PanelFirstPass {
             fail(PanelUpload.RETURN, Messages.returnBelowMinusOne(trimmedText(csv, layout.returnField)));
         }
         rowReturn = r;
+        rowReturnForm = number.decimal();
         rowCap = Double.NaN;
+        rowCapForm = SliceDecimals.NONE;
         if (layout.marketCapField >= 0) {
             double cap = checkNumber(csv, layout.marketCapField, PanelUpload.MARKET_CAP, marketCaps);
+            rowCapForm = number.decimal();
             if (cap <= 0) {
                 fail(PanelUpload.MARKET_CAP, Messages.marketCapNotPositive(trimmedText(csv, layout.marketCapField)));
             }
@@ -180,12 +194,15 @@ final class PanelFirstPass {
         for (int i = 0; i < extras.length; i++) {
             ExtraColumn column = extras[i];
             rowNumbers[i] = Double.NaN;
+            rowForms[i] = SliceDecimals.NONE;
             if (column.existingType == ColumnType.NUMBER) {
                 rowNumbers[i] = checkNumber(csv, column.field, column.name, column.tally);
+                rowForms[i] = number.decimal();
             } else if (column.existingType == ColumnType.LABEL || column.sawText) {
                 checkLabel(csv, column);
             } else {
                 rowNumbers[i] = checkNewColumnCell(csv, column, i);
+                rowForms[i] = number.decimal();
             }
         }
     }

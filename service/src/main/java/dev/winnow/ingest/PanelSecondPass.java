@@ -2,6 +2,7 @@ package dev.winnow.ingest;
 
 import dev.winnow.construct.CrossSection;
 import dev.winnow.store.Limits;
+import dev.winnow.store.SliceDecimals;
 import java.io.IOException;
 import java.io.InputStream;
 import java.time.LocalDate;
@@ -266,8 +267,13 @@ final class PanelSecondPass {
 
     /** Hands one cross-section to the sink; returns its rows. */
     static int emit(CrossSectionSink sink, CrossSection crossSection) throws SinkException {
+        return emit(sink, crossSection, null);
+    }
+
+    /** Hands one cross-section and the decimal forms of its numbers (may be null) to the sink; returns its rows. */
+    static int emit(CrossSectionSink sink, CrossSection crossSection, SliceDecimals decimals) throws SinkException {
         try {
-            sink.accept(crossSection);
+            sink.accept(crossSection, decimals);
         } catch (Exception storeFailure) {
             throw new SinkException(storeFailure);
         }

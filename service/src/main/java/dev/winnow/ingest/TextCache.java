@@ -1,5 +1,8 @@
 package dev.winnow.ingest;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
+import java.nio.ByteOrder;
 import java.nio.charset.StandardCharsets;
 import java.util.Arrays;
 
@@ -10,16 +13,32 @@ import java.util.Arrays;
  */
 final class TextCache {
 
+    private static final VarHandle LONG = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.LITTLE_ENDIAN);
+    private static final VarHandle INT = MethodHandles.byteArrayViewVarHandle(int[].class, ByteOrder.LITTLE_ENDIAN);
+
     private final int capacityLimit;
-    private byte[][] keys = new byte[1024][];
-    private String[] texts = new String[1024];
-    private int[] hashes = new int[1024];
-    private int[] indexes = new int[1024];
-    private String[] byIndex = new String[64];
+    private byte[][] keys;
+    private String[] texts;
+    private int[] hashes;
+    private int[] indexes;
+    private String[] byIndex;
+    private byte[][] keysByIndex;
     private int size;
 
     TextCache(int capacityLimit) {
+        this(capacityLimit, 0);
+    }
+
+    /** With room for {@code expectedTexts} texts before the table first grows. */
+    TextCache(int capacityLimit, int expectedTexts) {
         this.capacityLimit = capacityLimit;
+        int slots = Math.max(1024, Integer.highestOneBit(Math.max(1, Math.min(expectedTexts, 1 << 24)) * 2) * 2);
+        keys = new byte[slots][];
+        texts = new String[slots];
+        hashes = new int[slots];
+        indexes = new int[slots];
+        byIndex = new String[Math.max(64, slots / 2)];
+        keysByIndex = new byte[byIndex.length][];
     }
 
     /**
@@ -31,7 +50,7 @@ final class TextCache {
         int mask = keys.length - 1;
         int slot = hash & mask;
         for (byte[] key = keys[slot]; key != null; key = keys[slot]) {
-            if (hashes[slot] == hash && Arrays.equals(key, 0, key.length, b, s, e)) {
+            if (hashes[slot] == hash && equal(key, b, s, e)) {
                 return indexes[slot];
             }
             slot = (slot + 1) & mask;
@@ -41,6 +60,44 @@ final class TextCache {
         }
         insert(slot, hash, b, s, e, new String(b, s, e - s, StandardCharsets.UTF_8));
         return size - 1;
+    }
+
+    /**
+     * {@link #indexOf}, trying first the index {@code guess} (any int): a caller that can tell which text likely
+     * comes next (the security after the last one, in a file that repeats the same securities in the same order)
+     * skips hashing when it is right.
+     */
+    int indexOf(byte[] b, int s, int e, int guess) {
+        if (guess >= 0 && guess < size && equal(keysByIndex[guess], b, s, e)) {
+            return guess;
+        }
+        return indexOf(b, s, e);
+    }
+
+    /** Bytes [s, e) of b equal key (eight, then four bytes at a time: the keys are short). */
+    private static boolean equal(byte[] key, byte[] b, int s, int e) {
+        int length = key.length;
+        if (length != e - s) {
+            return false;
+        }
+        int i = 0;
+        for (; i <= length - 8; i += 8) {
+            if ((long) LONG.get(key, i) != (long) LONG.get(b, s + i)) {
+                return false;
+            }
+        }
+        if (i <= length - 4) {
+            if ((int) INT.get(key, i) != (int) INT.get(b, s + i)) {
+                return false;
+            }
+            i += 4;
+        }
+        for (; i < length; i++) {
+            if (key[i] != b[s + i]) {
+                return false;
+            }
+        }
+        return true;
     }
 
     /** The text with the given {@link #indexOf} index. */
@@ -60,8 +117,10 @@ final class TextCache {
         indexes[slot] = size;
         if (size == byIndex.length) {
             byIndex = Arrays.copyOf(byIndex, size * 2);
+            keysByIndex = Arrays.copyOf(keysByIndex, size * 2);
         }
         byIndex[size] = text;
+        keysByIndex[size] = keys[slot];
         if (++size * 2 > keys.length) {
             grow();
         }
@@ -73,7 +132,7 @@ final class TextCache {
         int mask = keys.length - 1;
         int slot = hash & mask;
         for (byte[] key = keys[slot]; key != null; key = keys[slot]) {
-            if (hashes[slot] == hash && Arrays.equals(key, 0, key.length, b, s, e)) {
+            if (hashes[slot] == hash && equal(key, b, s, e)) {
                 return texts[slot];
             }
             slot = (slot + 1) & mask;

@@ -18,6 +18,7 @@ import dev.winnow.store.JsonText;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.PanelStore.PanelRecord;
 import dev.winnow.store.SecurityDictionary;
+import dev.winnow.store.SliceDecimals;
 import dev.winnow.store.SliceStager;
 
 import java.time.LocalDate;
@@ -144,6 +145,11 @@ public final class PanelUploadJob implements JobHandler {
             @Override
             public void accept(CrossSection cs) throws InterruptedException {
                 stager.accept(cs);
+            }
+
+            @Override
+            public void accept(CrossSection cs, SliceDecimals decimals) throws InterruptedException {
+                stager.accept(cs, decimals);
             }
 
             @Override

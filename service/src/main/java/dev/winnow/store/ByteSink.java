@@ -1,9 +1,16 @@
 package dev.winnow.store;
 
+import java.lang.invoke.MethodHandles;
+import java.lang.invoke.VarHandle;
+import java.nio.ByteOrder;
 import java.util.Arrays;
 
 /** A growable big-endian byte buffer for encoders. */
 final class ByteSink {
+    /** Big-endian int and long views of a byte array, for encoders writing into {@link #reserve reserved} room. */
+    static final VarHandle INT = MethodHandles.byteArrayViewVarHandle(int[].class, ByteOrder.BIG_ENDIAN);
+    static final VarHandle LONG = MethodHandles.byteArrayViewVarHandle(long[].class, ByteOrder.BIG_ENDIAN);
+
     private byte[] bytes;
     private int size;
 
@@ -17,6 +24,22 @@ final class ByteSink {
 
     byte[] toArray() {
         return Arrays.copyOf(bytes, size);
+    }
+
+    /**
+     * Makes room for {@code length} more bytes and counts them written; returns where they start in {@link #array()},
+     * which the caller fills (the array may change with the next call that writes).
+     */
+    int reserve(int length) {
+        ensure(length);
+        int at = size;
+        size += length;
+        return at;
+    }
+
+    /** The buffer itself: the first {@link #size()} bytes are what was written. */
+    byte[] array() {
+        return bytes;
     }
 
     void clear() {

@@ -44,18 +44,29 @@ public final class CrossSectionCodec {
     }
 
     public static byte[] encode(CrossSection cs) {
+        return encode(cs, null);
+    }
+
+    /**
+     * Encodes the slice, trying first the decimal forms the parser read its numbers in ({@code decimals}, may be
+     * null); the bytes decode to the same values either way.
+     */
+    public static byte[] encode(CrossSection cs, SliceDecimals decimals) {
         int n = cs.size();
         ByteSink out = new ByteSink(64 + n * 20);
         DecimalDoubles.Scratch scratch = new DecimalDoubles.Scratch();
         out.putInt(VERSION);
         out.putVarint(n);
         putIds(out, cs.securityIds());
-        putNumbers(out, cs.returns(), scratch);
-        putNumbers(out, cs.marketCaps(), scratch);
+        putNumbers(out, cs.returns(), decimals == null ? null : decimals.returns(), scratch);
+        putNumbers(out, cs.marketCaps(), decimals == null ? null : decimals.marketCaps(), scratch);
         out.putVarint(cs.numbers().size());
+        int column = 0;
         for (Map.Entry<String, double[]> e : cs.numbers().entrySet()) {
             putString(out, e.getKey());
-            putNumbers(out, e.getValue(), scratch);
+            long[][] forms = decimals == null ? null : decimals.numbers();
+            putNumbers(out, e.getValue(), forms == null || column >= forms.length ? null : forms[column], scratch);
+            column++;
         }
         out.putVarint(cs.labels().size());
         for (Map.Entry<String, String[]> e : cs.labels().entrySet()) {
@@ -156,10 +167,10 @@ public final class CrossSectionCodec {
         return ids;
     }
 
-    private static void putNumbers(ByteSink out, double[] values, DecimalDoubles.Scratch scratch) {
+    private static void putNumbers(ByteSink out, double[] values, long[] forms, DecimalDoubles.Scratch scratch) {
         int lengthAt = out.size();
         out.putInt(0);
-        DecimalDoubles.encode(values, values.length, out, scratch);
+        DecimalDoubles.encode(values, forms != null && forms.length == values.length ? forms : null, values.length, out, scratch);
         out.setInt(lengthAt, out.size() - lengthAt - 4);
     }
 

@@ -9,8 +9,9 @@ package dev.winnow.store;
  * e &lt; 0) gives back exactly v's bits. Since d and 10^|e| are then exact doubles, that one correctly rounded
  * operation yields the double nearest to the decimal d x 10^-e (Clinger 1990, "How to read floating point numbers
  * accurately", PLDI; the same fast path {@code NumberCell} parses with), so every value parsed from a decimal with up to
- * eight significant digits (nine when they read below 134217728) is found. The encoder tries the exponents that give
- * eight and nine significant digits and keeps one only after decoding it and comparing all 64 bits; everything else
+ * eight significant digits (nine when they read below 134217728) is found. The encoder first tries the form the
+ * parser read the value in, when it was handed one ({@link SliceDecimals}), else the exponents that give eight and nine
+ * significant digits, and keeps a form only after decoding it and comparing all 64 bits; everything else
  * (more digits, negative zero, infinities, NaNs other than the canonical missing-value NaN, subnormals) is stored
  * as its raw bits, so decoding never changes a bit.
  *
@@ -27,8 +28,8 @@ final class DecimalDoubles {
     private static final int SLOTS = 14;
     private static final int MISSING_SLOT = 14;
     private static final int EXCEPTION_SLOT = 15;
-    private static final int MAX_EXPONENT = 22;
-    private static final long SIGNIFICAND_LIMIT = 1L << 27;
+    static final int MAX_EXPONENT = 22;
+    static final long SIGNIFICAND_LIMIT = 1L << 27;
     private static final long CANONICAL_NAN = Double.doubleToRawLongBits(Double.NaN);
     private static final double LOG10_2 = 0.30102999566398120;
     private static final double[] POW10 = new double[MAX_EXPONENT + 1];
@@ -66,6 +67,16 @@ final class DecimalDoubles {
 
     /** Appends the block for {@code values[0..n)} to {@code out}. */
     static void encode(double[] values, int n, ByteSink out, Scratch scratch) {
+        encode(values, null, n, out, scratch);
+    }
+
+    /**
+     * Appends the block for {@code values[0..n)} to {@code out}, trying first the decimal forms the parser read
+     * ({@code forms}, {@link SliceDecimals#of} words, may be null): a form is kept only when it gives back the value's
+     * 64 bits, and moved to another exponent of the block's window by integer scaling when it falls outside (the same
+     * rational number, so the same correctly rounded double); a value without a usable form is found by trial.
+     */
+    static void encode(double[] values, long[] forms, int n, ByteSink out, Scratch scratch) {
         scratch.ensure(n);
         int[] exponent = scratch.exponents;
         int[] significand = scratch.significands;
@@ -82,28 +93,23 @@ final class DecimalDoubles {
                 significand[i] = 0;
                 continue;
             }
-            double m = Math.abs(v);
-            if (!(m >= Double.MIN_NORMAL) || m == Double.POSITIVE_INFINITY) {
-                continue;
-            }
-            // p = floor(log10 m), from the binary exponent: at most one too low, corrected by one comparison
-            int p = (int) Math.floor(Math.getExponent(m) * LOG10_2);
-            if (p >= -MAX_EXPONENT - 2 && p <= MAX_EXPONENT && m >= POWERS[p + 1 + MAX_EXPONENT + 1]) {
-                p++;
-            }
-            int e = 7 - p;
-            long d = fit(m, e);
-            if (d < 0) {
-                e++;
-                d = fit(m, e);
-                if (d < 0) {
-                    e -= 2;
-                    d = fit(m, e);
+            long form = forms == null ? SliceDecimals.NONE : forms[i];
+            if (form != SliceDecimals.NONE) {
+                int e = (int) (form >> 32);
+                int d = (int) form;
+                if (e >= -MAX_EXPONENT && e <= MAX_EXPONENT && d > -SIGNIFICAND_LIMIT && d < SIGNIFICAND_LIMIT
+                        && Double.doubleToRawLongBits(valueOf(d, e)) == bits) {
+                    exponent[i] = e;
+                    significand[i] = d;
+                    histogram[e + MAX_EXPONENT]++;
+                    continue;
                 }
             }
-            if (d >= 0) {
+            long found = trial(v);
+            if (found != SliceDecimals.NONE) {
+                int e = (int) (found >> 32);
                 exponent[i] = e;
-                significand[i] = (int) (v < 0 ? -d : d);
+                significand[i] = (int) found;
                 histogram[e + MAX_EXPONENT]++;
             }
         }
@@ -114,43 +120,114 @@ final class DecimalDoubles {
             if (e == NO_EXPONENT + 1) {
                 continue;
             }
-            if (e == NO_EXPONENT ? Double.doubleToRawLongBits(values[i]) != CANONICAL_NAN : e < base || e >= base + SLOTS) {
+            if (e == NO_EXPONENT) {
+                if (Double.doubleToRawLongBits(values[i]) != CANONICAL_NAN) {
+                    exceptions++;
+                }
+            } else if ((e < base || e >= base + SLOTS) && !moveIntoWindow(values[i], i, base, exponent, significand)) {
                 exceptions++;
             }
         }
         if (4L * n + 8L * exceptions + 5 >= 8L * n) {
             out.put(RAW);
-            for (int i = 0; i < n; i++) {
-                out.putLong(Double.doubleToRawLongBits(values[i]));
+            int at = out.reserve(8 * n);
+            byte[] b = out.array();
+            for (int i = 0; i < n; i++, at += 8) {
+                ByteSink.LONG.set(b, at, Double.doubleToRawLongBits(values[i]));
             }
             return;
         }
         out.put(DECIMAL);
         out.put((byte) base);
         out.putInt(exceptions);
-        for (int i = 0; i < n; i++) {
+        int at = out.reserve(4 * n + 8 * exceptions);
+        byte[] b = out.array();
+        int exceptionAt = at + 4 * n;
+        for (int i = 0; i < n; i++, at += 4) {
             int e = exponent[i];
             int word;
             if (e == NO_EXPONENT + 1) {
                 word = 0;
-            } else if (e == NO_EXPONENT) {
-                word = Double.doubleToRawLongBits(values[i]) == CANONICAL_NAN ? MISSING_SLOT << 28 : EXCEPTION_SLOT << 28;
-            } else if (e < base || e >= base + SLOTS) {
-                word = EXCEPTION_SLOT << 28;
-            } else {
+            } else if (e >= base && e < base + SLOTS) {
                 int s = significand[i];
                 word = ((e - base) << 28) | ((s << 1) ^ (s >> 31));
+            } else if (e == NO_EXPONENT && Double.doubleToRawLongBits(values[i]) == CANONICAL_NAN) {
+                word = MISSING_SLOT << 28;
+            } else {
+                word = EXCEPTION_SLOT << 28;
+                ByteSink.LONG.set(b, exceptionAt, Double.doubleToRawLongBits(values[i]));
+                exceptionAt += 8;
             }
-            out.putInt(word);
+            ByteSink.INT.set(b, at, word);
         }
-        for (int i = 0; i < n; i++) {
-            int e = exponent[i];
-            boolean exception = e == NO_EXPONENT ? Double.doubleToRawLongBits(values[i]) != CANONICAL_NAN
-                    : e != NO_EXPONENT + 1 && (e < base || e >= base + SLOTS);
-            if (exception) {
-                out.putLong(Double.doubleToRawLongBits(values[i]));
+    }
+
+    /** d / 10^e for e &gt;= 0, d * 10^-e for e &lt; 0: what {@link #decode} computes for a word. */
+    private static double valueOf(int d, int e) {
+        return e >= 0 ? d / POW10[e] : d * POW10[-e];
+    }
+
+    /**
+     * Moves the value at row i to an exponent in [base, base + SLOTS) when its significand can be scaled there
+     * exactly (times or divided by a power of ten, staying below 2^27), or when trial finds one there; false otherwise.
+     * The scaled form names the same rational number, and both forms are one correctly rounded IEEE operation on
+     * exact operands, so they give the same double; it is checked anyway.
+     */
+    private static boolean moveIntoWindow(double v, int i, int base, int[] exponent, int[] significand) {
+        int e = exponent[i];
+        long d = significand[i];
+        while (e < base && Math.abs(d) * 10 < SIGNIFICAND_LIMIT) {
+            d *= 10;
+            e++;
+        }
+        while (e >= base + SLOTS && d != 0 && d % 10 == 0) {
+            d /= 10;
+            e--;
+        }
+        long bits = Double.doubleToRawLongBits(v);
+        if (e >= base && e < base + SLOTS && Double.doubleToRawLongBits(valueOf((int) d, e)) == bits) {
+            exponent[i] = e;
+            significand[i] = (int) d;
+            return true;
+        }
+        long found = trial(v);
+        int t = (int) (found >> 32);
+        if (found != SliceDecimals.NONE && t >= base && t < base + SLOTS) {
+            exponent[i] = t;
+            significand[i] = (int) found;
+            return true;
+        }
+        return false;
+    }
+
+    /**
+     * The form (as {@link SliceDecimals#of} packs it: exponent e in the high word, signed significand in the low one)
+     * with 8 or 9 significant digits that gives back exactly v, found by trial, or {@link SliceDecimals#NONE}.
+     */
+    private static long trial(double v) {
+        double m = Math.abs(v);
+        if (!(m >= Double.MIN_NORMAL) || m == Double.POSITIVE_INFINITY) {
+            return SliceDecimals.NONE;
+        }
+        // p = floor(log10 m), from the binary exponent: at most one too low, corrected by one comparison
+        int p = (int) Math.floor(Math.getExponent(m) * LOG10_2);
+        if (p >= -MAX_EXPONENT - 2 && p <= MAX_EXPONENT && m >= POWERS[p + 1 + MAX_EXPONENT + 1]) {
+            p++;
+        }
+        int e = 7 - p;
+        long d = fit(m, e);
+        if (d < 0) {
+            e++;
+            d = fit(m, e);
+            if (d < 0) {
+                e -= 2;
+                d = fit(m, e);
             }
         }
+        if (d < 0) {
+            return SliceDecimals.NONE;
+        }
+        return ((long) e << 32) | ((v < 0 ? -d : d) & 0xFFFF_FFFFL);
     }
 
     /** The magnitude d &lt; 2^27 with d at exponent e giving back exactly m, or -1. */

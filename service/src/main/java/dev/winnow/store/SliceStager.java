@@ -28,8 +28,8 @@ public final class SliceStager implements AutoCloseable {
     private static final int BATCH_BYTES = 8 << 20;
     private static final int BATCH_SLICES = 512;
     private static final long WAIT_MILLIS = 100;
-    private static final CrossSection END = new CrossSection(LocalDate.MIN, new int[0], new double[0], new double[0],
-            java.util.Map.of(), java.util.Map.of());
+    private static final Item END = new Item(new CrossSection(LocalDate.MIN, new int[0], new double[0], new double[0],
+            java.util.Map.of(), java.util.Map.of()), null);
 
     private final Jdbi jdbi;
     private final long panelId;
@@ -52,8 +52,20 @@ public final class SliceStager implements AutoCloseable {
 
     /** Queues a cross-section for staging; waits while the queue is full. */
     public void accept(CrossSection cs) throws InterruptedException {
-        writer.put(cs);
+        accept(cs, null);
+    }
+
+    /**
+     * Queues a cross-section for staging with the decimal forms its numbers were read in (may be null), which spare
+     * the encoder finding them again; waits while the queue is full.
+     */
+    public void accept(CrossSection cs, SliceDecimals decimals) throws InterruptedException {
+        writer.put(new Item(cs, decimals));
         accepted++;
+    }
+
+    /** A queued cross-section and its decimal forms. */
+    private record Item(CrossSection cs, SliceDecimals decimals) {
     }
 
     /** Waits until everything accepted is staged; fails unless every accepted slice was written. */
@@ -99,7 +111,7 @@ public final class SliceStager implements AutoCloseable {
      * ({@link Thread#join} orders the two).
      */
     private final class Writer implements Runnable {
-        final BlockingQueue<CrossSection> queue = new ArrayBlockingQueue<>(QUEUED);
+        final BlockingQueue<Item> queue = new ArrayBlockingQueue<>(QUEUED);
         final Thread thread;
         volatile boolean stopped;
         volatile Throwable failure;
@@ -115,7 +127,7 @@ public final class SliceStager implements AutoCloseable {
         }
 
         /** Queues an item, waiting while the queue is full; fails as soon as the writer is gone. */
-        void put(CrossSection cs) throws InterruptedException {
+        void put(Item cs) throws InterruptedException {
             while (!queue.offer(cs, WAIT_MILLIS, TimeUnit.MILLISECONDS)) {
                 checkRunning();
             }
@@ -169,12 +181,13 @@ public final class SliceStager implements AutoCloseable {
             long batchBytes = 0;
             try {
                 while (!stopped) {
-                    CrossSection cs = queue.take();
-                    if (cs == END) {
+                    Item item = queue.take();
+                    if (item == END) {
                         break;
                     }
+                    CrossSection cs = item.cs();
                     long t0 = System.nanoTime();
-                    byte[] payload = CrossSectionCodec.encode(cs);
+                    byte[] payload = CrossSectionCodec.encode(cs, item.decimals());
                     encodeNanos += System.nanoTime() - t0;
                     batch.add(new Encoded(cs.date(), cs.size(), payload));
                     batchBytes += payload.length;

@@ -168,6 +168,52 @@ class CsvTokenizerTest {
         assertEquals(expected, read(trickle(text)));
     }
 
+    /** The in-place form (a chunk of an array) reads what the stream form reads, record for record and position. */
+    @Test
+    void inPlaceTokenizingAgreesWithTheStream() throws IOException {
+        java.util.SplittableRandom random = new java.util.SplittableRandom(3);
+        String[] pieces = {"a", "bc", "12345678", "0.0070677968", ",", ",", ",", "\n", "\r\n", "\r", "\"", "\"\"",
+            "\"x,y\"", " ", "\uFEFF", "é", "SY00001", "2000-01-03", ""};
+        for (int round = 0; round < 3000; round++) {
+            StringBuilder text = new StringBuilder();
+            int parts = random.nextInt(60);
+            for (int i = 0; i < parts; i++) {
+                text.append(pieces[random.nextInt(pieces.length)]);
+            }
+            byte[] bytes = text.toString().getBytes(StandardCharsets.UTF_8);
+            int from = random.nextInt(5);
+            byte[] padded = new byte[from + bytes.length + random.nextInt(9)];
+            java.util.Arrays.fill(padded, (byte) ',');
+            System.arraycopy(bytes, 0, padded, from, bytes.length);
+            CsvTokenizer stream = new CsvTokenizer(new ByteArrayInputStream(bytes));
+            CsvTokenizer inPlace = new CsvTokenizer(padded, from, bytes.length);
+            while (true) {
+                boolean more = stream.next();
+                assertEquals(more, inPlace.next(), text.toString());
+                if (!more) {
+                    break;
+                }
+                assertEquals(stream.recordLine(), inPlace.recordLine(), text.toString());
+                assertEquals(stream.fieldCount(), inPlace.fieldCount(), text.toString());
+                for (int f = 0; f < stream.fieldCount(); f++) {
+                    assertEquals(stream.text(f), inPlace.text(f), text.toString());
+                }
+                assertEquals(stream.malformedField(), inPlace.malformedField(), text.toString());
+                assertEquals(stream.unterminatedQuote(), inPlace.unterminatedQuote(), text.toString());
+                assertEquals(stream.position(), inPlace.position(), text.toString());
+                assertEquals(stream.nextLine(), inPlace.nextLine(), text.toString());
+            }
+        }
+    }
+
+    @Test
+    void overlongRecordInPlaceStopsToo() {
+        byte[] text = ("a,\"" + "y".repeat(CsvTokenizer.MAX_RECORD_BYTES + 10)).getBytes(StandardCharsets.UTF_8);
+        CsvTokenizer csv = new CsvTokenizer(text, 0, text.length);
+        CsvTokenizer.RecordTooLongException e = assertThrows(CsvTokenizer.RecordTooLongException.class, csv::next);
+        assertEquals(1, e.line());
+    }
+
     @Test
     void overlongRecordStopsInsteadOfFillingMemory() {
         byte[] text = ("a,\"" + "y".repeat(CsvTokenizer.MAX_RECORD_BYTES + 10)).getBytes(StandardCharsets.UTF_8);

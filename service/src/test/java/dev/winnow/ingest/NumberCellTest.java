@@ -27,6 +27,23 @@ class NumberCellTest {
                 text);
     }
 
+    /** Eight bytes at once against the JDK's Long.parseLong, with non-digits (and bytes next to '0'..'9') anywhere. */
+    @Test
+    void eightDigitsAtOnceAgreeWithTheJdk() {
+        Random random = new Random(8);
+        byte[] near = {'/', ':', '0', '9', ' ', '.', (byte) 0xff, (byte) 0xc0, (byte) 0x3f, (byte) 0x40, (byte) 0xfa};
+        for (int round = 0; round < 200_000; round++) {
+            byte[] b = new byte[8];
+            boolean digits = true;
+            for (int i = 0; i < 8; i++) {
+                b[i] = random.nextInt(20) == 0 ? near[random.nextInt(near.length)] : (byte) ('0' + random.nextInt(10));
+                digits &= b[i] >= '0' && b[i] <= '9';
+            }
+            long expected = digits ? Long.parseLong(new String(b, StandardCharsets.ISO_8859_1)) : -1;
+            assertEquals(expected, NumberCell.eightDigits(b, 0), new String(b, StandardCharsets.ISO_8859_1));
+        }
+    }
+
     @Test
     void matchesJdkParsingOnHandPickedDecimals() {
         for (String text : new String[] {"0", "-0", "+0.0", "1", "-1", "0.1", "0.2", "0.3", ".5", "5.", "1e3", "1E-3",
