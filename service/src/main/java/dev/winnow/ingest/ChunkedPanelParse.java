@@ -33,8 +33,10 @@ import java.util.zip.ZipException;
  * {@link Unsuitable} before the result is formed, and the caller discards what the sink received and parses the file
  * in two passes: a date that comes back after another date or out of ascending order, a new column whose type the
  * first chunk did not tell (numbers there, text later, or no value at all), a header problem, a chunk boundary inside
- * a quoted field, an unreadable gzip stream, a record longer than the chunk limit, or a date with more rows than
- * {@link Limits#MAX_ROWS_PER_DATE}.
+ * a quoted field, an unreadable gzip stream, a record longer than the chunk limit, or a date with more than
+ * {@value #MAX_ROWS_PER_DATE} rows (the two passes know each date's count before reading its rows, so they hold a
+ * large date, or report one past {@link Limits#MAX_ROWS_PER_DATE}, within bounded memory; this path grows its block
+ * row by row, doubling, and a block of a million rows with its copy took most of a small heap).
  *
  * <p>New column types are decided by the first chunk: a column with any text there is a label column; otherwise a
  * number column, which the whole file must confirm. Once any error is found no more cross-sections are formed (the
@@ -48,6 +50,12 @@ final class ChunkedPanelParse {
     /** A single record may not exceed this; longer lines are left to the two-pass parse to report. */
     private static final int MAX_CHUNK_BYTES = CsvTokenizer.MAX_RECORD_BYTES + CHUNK_BYTES;
     private static final Object END = new Object();
+    /**
+     * The most rows one date may have in this path; a larger date is left to the two passes. Far above any usual
+     * cross-section, and a quarter of {@link Limits#MAX_ROWS_PER_DATE}, so the block and its doubling copy stay a few
+     * tens of megabytes (a service with a 128 MB heap ran out of memory growing a block towards a million rows).
+     */
+    static final int MAX_ROWS_PER_DATE = 1 << 18;
 
     /** The file does not suit the one-pass path; the two-pass parse must run instead. */
     static final class Unsuitable extends Exception {
@@ -532,9 +540,9 @@ final class ChunkedPanelParse {
                 blockDate = date;
                 block = new DateBlock(lastBlockRows, numberCount, labelCount).withForms();
             }
-            if (block.size >= Limits.MAX_ROWS_PER_DATE) {
-                // the two passes report this date (duplicates or its size) within the same bounded memory
-                throw new Unsuitable("a date with more rows than one date may hold");
+            if (block.size >= MAX_ROWS_PER_DATE) {
+                // the two passes hold or report this date (duplicates or its size) within bounded memory
+                throw new Unsuitable("a date with more rows than this path holds");
             }
             block.ensureRoom();
             int k = block.size++;
