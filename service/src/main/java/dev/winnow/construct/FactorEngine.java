@@ -328,10 +328,20 @@ public final class FactorEngine {
         /** Processes grid date t: the formation dated t - 1 if it is a rebalance point, then one holding period. */
         private boolean step(int t) {
             CrossSection rows = read(t);
-            double cost = 0.0;
             boolean formed = formsAt(t);
-            if (formed) {
-                Holding[] next = form(t);
+            advance(t, rows, formed ? form(t) : null);
+            window.put(t, rows);
+            offer(t, rows);
+            return formed;
+        }
+
+        /**
+         * What depends on the book at grid date t: the formation that starts the date, when {@code next} is one (its
+         * turnover and cost, and it becomes the book), then the holding period through t.
+         */
+        private void advance(int t, CrossSection rows, Holding[] next) {
+            double cost = 0.0;
+            if (next != null) {
                 double turnover = LegWeights.turnover(rule, next, book);
                 formations.add(new Formation(dates.get(t - 1), turnover));
                 cost = costRate * turnover;
@@ -343,9 +353,6 @@ public final class FactorEngine {
             if (book != null) {
                 hold(rows, cost);
             }
-            window.put(t, rows);
-            offer(t, rows);
-            return formed;
         }
 
         /** What the forming thread hands over for grid date t: its rows and the formation it starts with, if any. */
@@ -410,16 +417,7 @@ public final class FactorEngine {
                     if (f.failure() != null) {
                         throw new IllegalStateException(f.failure());
                     }
-                    double cost = 0.0;
-                    if (f.next() != null) {
-                        double turnover = LegWeights.turnover(rule, f.next(), book);
-                        formations.add(new Formation(dates.get(t - 1), turnover));
-                        cost = costRate * turnover;
-                        book = f.next();
-                    }
-                    if (book != null) {
-                        hold(f.rows(), cost);
-                    }
+                    advance(t, f.rows(), f.next());
                 }
                 forming.get(); // its last steps happen before this build's end
                 done = true;

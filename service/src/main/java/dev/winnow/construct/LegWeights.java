@@ -37,7 +37,6 @@ record LegWeights(int[] ids, double[] weights) {
         long[] packed = new long[members];
         double[] raw = new double[members];
         int m = 0;
-        boolean increasing = true;
         for (int j = 0; j < leg.length; j++) {
             Holding h = subs[leg[j]];
             double total = totals[j];
@@ -47,13 +46,10 @@ record LegWeights(int[] ids, double[] weights) {
             for (int k = 0; k < h.size(); k++) {
                 raw[m] = h.value(k) / total / nonEmpty;
                 packed[m] = ((long) h.id(k) << 32) | m; // sort by id, remembering the position
-                increasing &= m == 0 || packed[m] > packed[m - 1];
                 m++;
             }
         }
-        if (!increasing) { // a leg of one sub-portfolio comes in id order already (members are held by increasing id)
-            Arrays.sort(packed);
-        }
+        Arrays.sort(packed);
         int[] ids = new int[members];
         double[] weights = new double[members];
         for (int k = 0; k < members; k++) {

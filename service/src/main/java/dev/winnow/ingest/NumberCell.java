@@ -39,6 +39,7 @@ final class NumberCell {
     private Kind kind;
     private double value;
     private long decimal = SliceDecimals.NONE;
+    private long accumulated;
 
     Kind kind() {
         return kind;
@@ -77,14 +78,9 @@ final class NumberCell {
             i++;
             anyDigit = true;
         }
-        long m = 0;
+        accumulated = 0;
         int significantStart = i;
-        for (long eight; i <= e - 8 && (eight = eightDigits(b, i)) >= 0; i += 8) {
-            m = m * 100_000_000L + eight;
-        }
-        for (int d; i < e && (d = b[i] - '0') >= 0 && d <= 9; i++) {
-            m = m * 10 + d;
-        }
+        i = digitsInto(b, i, e);
         int significant = i - significantStart;
         int scale = 0;
         if (i < e && b[i] == '.') {
@@ -95,12 +91,7 @@ final class NumberCell {
                 }
             }
             int fractionSignificantStart = i;
-            for (long eight; i <= e - 8 && (eight = eightDigits(b, i)) >= 0; i += 8) {
-                m = m * 100_000_000L + eight;
-            }
-            for (int d; i < e && (d = b[i] - '0') >= 0 && d <= 9; i++) {
-                m = m * 10 + d; // mod 2^64: exact for up to 19 significant digits
-            }
+            i = digitsInto(b, i, e);
             significant += i - fractionSignificantStart;
             scale = i - fractionStart;
             anyDigit |= scale > 0;
@@ -110,7 +101,7 @@ final class NumberCell {
             return kind = isNonFiniteWord(b, i, e) ? Kind.NON_FINITE : Kind.TEXT;
         }
         // Up to 19 significant digits fit an unsigned long exactly.
-        long mantissa = m;
+        long mantissa = accumulated;
         boolean exact = significant <= MAX_EXACT_DIGITS;
         int exponent = 0;
         if (i < e && (b[i] == 'e' || b[i] == 'E')) {
@@ -155,6 +146,22 @@ final class NumberCell {
         }
         value = v;
         return kind = Kind.NUMBER;
+    }
+
+    /**
+     * Appends the digits from i on to {@link #accumulated} (mod 2^64: exact for up to 19 significant digits), eight
+     * at a time while it can; returns the index after the last digit.
+     */
+    private int digitsInto(byte[] b, int i, int e) {
+        long m = accumulated;
+        for (long eight; i <= e - 8 && (eight = eightDigits(b, i)) >= 0; i += 8) {
+            m = m * 100_000_000L + eight;
+        }
+        for (int d; i < e && (d = b[i] - '0') >= 0 && d <= 9; i++) {
+            m = m * 10 + d;
+        }
+        accumulated = m;
+        return i;
     }
 
     /**

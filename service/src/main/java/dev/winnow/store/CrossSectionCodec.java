@@ -62,9 +62,9 @@ public final class CrossSectionCodec {
         putNumbers(out, cs.marketCaps(), decimals == null ? null : decimals.marketCaps(), scratch);
         out.putVarint(cs.numbers().size());
         int column = 0;
+        long[][] forms = decimals == null ? null : decimals.numbers();
         for (Map.Entry<String, double[]> e : cs.numbers().entrySet()) {
             putString(out, e.getKey());
-            long[][] forms = decimals == null ? null : decimals.numbers();
             putNumbers(out, e.getValue(), forms == null || column >= forms.length ? null : forms[column], scratch);
             column++;
         }
