@@ -76,6 +76,12 @@ final class ChunkedPanelParse {
     private final CrossSectionSink sink;
     private final int chunkBytes;
     private final int workers;
+    /**
+     * Chunk buffers the workers are done with, for the reader to fill again: a chunk buffer of a megabyte is a
+     * humongous object to G1 with a small heap, and allocating 1,400 of them for a 1.4 GB file cost as much garbage
+     * collection as the rest of the ingest. A few chunks are in flight at a time, so a few buffers go round.
+     */
+    private final BlockingQueue<byte[]> spareBuffers;
 
     private PanelLayout layout;
     private PanelFirstPass whole;
@@ -109,6 +115,7 @@ final class ChunkedPanelParse {
         this.sink = sink;
         this.chunkBytes = chunkBytes;
         this.workers = workers;
+        this.spareBuffers = new ArrayBlockingQueue<>(2 * workers + 2);
     }
 
     /** One chunk of the decompressed file, cut after a line break (the last one may end anywhere). */
@@ -264,7 +271,7 @@ final class ChunkedPanelParse {
     /** The reader: cuts the stream into chunks after their last line break and queues them, then END. */
     private void read(InputStream in, BlockingQueue<Object> chunks) {
         try {
-            byte[] buf = new byte[chunkBytes];
+            byte[] buf = buffer(chunkBytes);
             int filled = 0;
             while (true) {
                 int n = in.read(buf, filled, buf.length - filled);
@@ -291,7 +298,7 @@ final class ChunkedPanelParse {
                     buf = Arrays.copyOf(buf, buf.length * 2);
                     continue;
                 }
-                byte[] next = new byte[Math.max(chunkBytes, filled - cut)];
+                byte[] next = buffer(Math.max(chunkBytes, filled - cut));
                 System.arraycopy(buf, cut, next, 0, filled - cut);
                 chunks.put(new Chunk(buf, 0, cut, false));
                 buf = next;
@@ -304,6 +311,19 @@ final class ChunkedPanelParse {
         } catch (IOException | RuntimeException | Error e) {
             // whatever ends the reader, the parsing thread is told: it never waits for a chunk that cannot come
             offer(chunks, e);
+        }
+    }
+
+    /** A spare chunk buffer when one of the usual size is asked for and one is free, else a new one. */
+    private byte[] buffer(int size) {
+        byte[] spare = size == chunkBytes ? spareBuffers.poll() : null;
+        return spare != null ? spare : new byte[size];
+    }
+
+    /** Gives a chunk's buffer back once nothing refers to it any more (the rows of a chunk hold no reference to it). */
+    private void recycle(byte[] buffer) {
+        if (buffer.length == chunkBytes) {
+            spareBuffers.offer(buffer);
         }
     }
 
@@ -497,6 +517,7 @@ final class ChunkedPanelParse {
             throw new Unsuitable("a chunk boundary inside a quoted field");
         }
         rows.lineBreaks = csv.nextLine() - 1;
+        recycle(chunk.bytes());
         return rows;
     }
 
