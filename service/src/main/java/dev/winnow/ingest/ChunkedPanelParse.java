@@ -82,6 +82,8 @@ final class ChunkedPanelParse {
      * collection as the rest of the ingest. A few chunks are in flight at a time, so a few buffers go round.
      */
     private final BlockingQueue<byte[]> spareBuffers;
+    /** Chunks taken back, whose row arrays the next chunks' rows reuse ({@link ChunkRows#ChunkRows(int, ChunkRows)}). */
+    private final BlockingQueue<ChunkRows> spareRows;
 
     private PanelLayout layout;
     private PanelFirstPass whole;
@@ -116,6 +118,7 @@ final class ChunkedPanelParse {
         this.chunkBytes = chunkBytes;
         this.workers = workers;
         this.spareBuffers = new ArrayBlockingQueue<>(2 * workers + 2);
+        this.spareRows = new ArrayBlockingQueue<>(workers + 1);
     }
 
     /** One chunk of the decompressed file, cut after a line break (the last one may end anywhere). */
@@ -174,7 +177,7 @@ final class ChunkedPanelParse {
         whole.startChunked(layout);
         lineOffset = csv.nextLine() - 1;
         planColumns(null);
-        ChunkRows rows = scan(new Chunk(first.bytes(), first.from() + (int) headerEnd, first.length() - (int) headerEnd, first.last()));
+        ChunkRows rows = scan(new Chunk(first.bytes(), first.from() + (int) headerEnd, first.length() - (int) headerEnd, first.last()), takeCodeTable());
         planColumns(rows.pass.extras);
         add(rows);
 
@@ -191,7 +194,8 @@ final class ChunkedPanelParse {
                     end = true;
                     break;
                 }
-                inFlight.add(pool.submit(() -> scan(chunk)));
+                TextCache codes = takeCodeTable();
+                inFlight.add(pool.submit(() -> scan(chunk, codes)));
                 end = chunk.last();
             }
             if (inFlight.isEmpty()) {
@@ -384,7 +388,15 @@ final class ChunkedPanelParse {
         final ErrorCollector chunkErrors = new ErrorCollector();
         final boolean[] numbers = numberColumn.clone();
         final boolean[] labels = labelColumn.clone();
-        final TextCache codes = new TextCache(Integer.MAX_VALUE, codesInLastChunk);
+        /**
+         * The security code table this chunk reads into: one of a few tables that go round the workers and keep
+         * their codes from chunk to chunk ({@link #spareCodes}), so a chunk looks its codes up instead of adding
+         * 3,000 of them to a new table and mapping each to its id again. Indexes of codes already in the table
+         * before this chunk are below {@link #codesBefore}; the texts of those the chunk added are {@link #newCodes}.
+         */
+        final TextCache codes;
+        final int codesBefore;
+        String[] newCodes;
         final TextCache[] labelTexts = new TextCache[labels.length];
         final LocalDate[] dateList = new LocalDate[64];
         int dateCount;
@@ -401,8 +413,32 @@ final class ChunkedPanelParse {
         long[] capForms;
         long[][] forms;
 
-        ChunkRows(int expectedRows) {
+        /**
+         * Rows for a chunk of about {@code expectedRows} rows, read with the code table {@code codes}, in the arrays of {@code done} (a chunk already taken
+         * back, or null) when they are large enough and for the same columns: about 2 GB of row arrays were allocated
+         * for the 1.4 GB benchmark file, one set per chunk.
+         */
+        ChunkRows(int expectedRows, ChunkRows done, TextCache codes) {
+            this.codes = codes;
+            this.codesBefore = codes.size();
             pass = new PanelFirstPass(upload, chunkErrors, ProgressMeter.silent());
+            if (done != null && done.lines.length >= expectedRows && Arrays.equals(done.numbers, numbers)
+                    && Arrays.equals(done.labels, labels)) {
+                lines = done.lines;
+                dateOf = done.dateOf;
+                code = done.code;
+                returns = done.returns;
+                caps = done.caps;
+                returnForms = done.returnForms;
+                capForms = done.capForms;
+                values = done.values;
+                forms = done.forms;
+                labelCodes = done.labelCodes;
+                for (int i = 0; i < labels.length; i++) {
+                    labelTexts[i] = labels[i] ? new TextCache(Integer.MAX_VALUE) : null;
+                }
+                return;
+            }
             lines = new int[expectedRows];
             dateOf = new int[expectedRows];
             code = new int[expectedRows];
@@ -503,8 +539,8 @@ final class ChunkedPanelParse {
     }
 
     /** Checks and reads one chunk (any thread). A date that changes more often than 64 times a chunk gives up. */
-    private ChunkRows scan(Chunk chunk) throws IOException, Unsuitable {
-        ChunkRows rows = new ChunkRows(Math.max(16, chunk.length() / 48));
+    private ChunkRows scan(Chunk chunk, TextCache codes) throws IOException, Unsuitable {
+        ChunkRows rows = new ChunkRows(Math.max(16, chunk.length() / 48), spareRows.poll(), codes);
         CsvTokenizer csv = new CsvTokenizer(chunk.bytes(), chunk.from(), chunk.length());
         try {
             rows.pass.scanChunk(csv, layout, rows);
@@ -517,6 +553,11 @@ final class ChunkedPanelParse {
             throw new Unsuitable("a chunk boundary inside a quoted field");
         }
         rows.lineBreaks = csv.nextLine() - 1;
+        rows.newCodes = new String[rows.codes.size() - rows.codesBefore];
+        for (int c = 0; c < rows.newCodes.length; c++) {
+            rows.newCodes[c] = rows.codes.textAt(rows.codesBefore + c);
+        }
+        spareCodes.offer(rows.codes); // only after the scan; the next chunk to take it is submitted later, so lies later
         recycle(chunk.bytes());
         return rows;
     }
@@ -529,11 +570,27 @@ final class ChunkedPanelParse {
         }
         lineOffset += rows.lineBreaks;
         rowOffset += rows.pass.rowsRead;
+        spareRows.offer(rows); // nothing refers to its arrays any more: a worker may fill them with a later chunk
         meter.report(whole.rowsRead, whole.rowsRejected + duplicateRows, rowsEmitted);
     }
 
     /** Distinct security codes of the last chunk taken back: the next chunks' code tables start that large. */
     private volatile int codesInLastChunk;
+
+    /**
+     * Code tables between scans. This thread takes a table when it submits a chunk, in file order, and the worker
+     * gives it back when the chunk's scan ends, so each table sees its chunks in file order, the order in which this
+     * thread takes them back: the codes a chunk added to its table are resolved to ids ({@link #idsOfTable}) before
+     * any later chunk's.
+     */
+    private final BlockingQueue<TextCache> spareCodes = new java.util.concurrent.LinkedBlockingQueue<>();
+    /** Per code table (this thread only): the security id of each of its code indexes resolved so far. */
+    private final Map<TextCache, int[]> idsOfTable = new java.util.IdentityHashMap<>();
+
+    private TextCache takeCodeTable() {
+        TextCache table = spareCodes.poll();
+        return table != null ? table : new TextCache(Integer.MAX_VALUE, codesInLastChunk);
+    }
 
     private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
         // a chunk whose dates go back gives up before any of its dates is handed over (most files not in
@@ -545,9 +602,19 @@ final class ChunkedPanelParse {
             }
         }
         codesInLastChunk = rows.codes.size();
-        int[] idOf = new int[rows.codes.size()];
-        for (int c = 0; c < idOf.length; c++) {
-            idOf[c] = idFor(rows.codes.textAt(c));
+        int[] known = idsOfTable.getOrDefault(rows.codes, new int[0]);
+        if (known.length != rows.codesBefore) {
+            throw new IllegalStateException("code table out of step: " + known.length + " ids for " + rows.codesBefore + " codes");
+        }
+        // the codes new to this table, in order of first appearance in this chunk: the ones new to the file get ids in
+        // the same order as when every chunk had a table of its own
+        int[] idOf = known;
+        if (rows.newCodes.length > 0) {
+            idOf = Arrays.copyOf(known, rows.codesBefore + rows.newCodes.length);
+            for (int c = 0; c < rows.newCodes.length; c++) {
+                idOf[rows.codesBefore + c] = idFor(rows.newCodes[c]);
+            }
+            idsOfTable.put(rows.codes, idOf);
         }
         int numberCount = numberNames.length;
         int labelCount = labelNames.length;
