@@ -82,7 +82,7 @@ final class ChunkedPanelParse {
      * collection as the rest of the ingest. A few chunks are in flight at a time, so a few buffers go round.
      */
     private final BlockingQueue<byte[]> spareBuffers;
-    /** Chunks taken back, whose row arrays the next chunks' rows reuse ({@link ChunkRows#ChunkRows(int, ChunkRows)}). */
+    /** Chunks taken back, whose row arrays the next chunks' rows reuse ({@link ChunkRows#ChunkRows}). */
     private final BlockingQueue<ChunkRows> spareRows;
 
     private PanelLayout layout;
@@ -396,6 +396,8 @@ final class ChunkedPanelParse {
          */
         final TextCache codes;
         final int codesBefore;
+        /** The codes in the table when the scan ended (the table may be in another scan's hands since). */
+        int codesAfter;
         String[] newCodes;
         final TextCache[] labelTexts = new TextCache[labels.length];
         final LocalDate[] dateList = new LocalDate[64];
@@ -414,9 +416,9 @@ final class ChunkedPanelParse {
         long[][] forms;
 
         /**
-         * Rows for a chunk of about {@code expectedRows} rows, read with the code table {@code codes}, in the arrays of {@code done} (a chunk already taken
-         * back, or null) when they are large enough and for the same columns: about 2 GB of row arrays were allocated
-         * for the 1.4 GB benchmark file, one set per chunk.
+         * Rows for a chunk of about {@code expectedRows} rows, read with the code table {@code codes}, in the arrays
+         * of {@code done} (a chunk already taken back, or null) when they are large enough and for the same columns:
+         * about 2 GB of row arrays were allocated for the 1.4 GB benchmark file, one set per chunk.
          */
         ChunkRows(int expectedRows, ChunkRows done, TextCache codes) {
             this.codes = codes;
@@ -553,7 +555,8 @@ final class ChunkedPanelParse {
             throw new Unsuitable("a chunk boundary inside a quoted field");
         }
         rows.lineBreaks = csv.nextLine() - 1;
-        rows.newCodes = new String[rows.codes.size() - rows.codesBefore];
+        rows.codesAfter = rows.codes.size();
+        rows.newCodes = new String[rows.codesAfter - rows.codesBefore];
         for (int c = 0; c < rows.newCodes.length; c++) {
             rows.newCodes[c] = rows.codes.textAt(rows.codesBefore + c);
         }
@@ -601,7 +604,7 @@ final class ChunkedPanelParse {
                 throw new Unsuitable("dates not in ascending blocks");
             }
         }
-        codesInLastChunk = rows.codes.size();
+        codesInLastChunk = rows.codesAfter;
         int[] known = idsOfTable.getOrDefault(rows.codes, new int[0]);
         if (known.length != rows.codesBefore) {
             throw new IllegalStateException("code table out of step: " + known.length + " ids for " + rows.codesBefore + " codes");
