@@ -396,8 +396,6 @@ final class ChunkedPanelParse {
          */
         final TextCache codes;
         final int codesBefore;
-        /** The codes in the table when the scan ended (the table may be in another scan's hands since). */
-        int codesAfter;
         String[] newCodes;
         final TextCache[] labelTexts = new TextCache[labels.length];
         final LocalDate[] dateList = new LocalDate[64];
@@ -555,8 +553,7 @@ final class ChunkedPanelParse {
             throw new Unsuitable("a chunk boundary inside a quoted field");
         }
         rows.lineBreaks = csv.nextLine() - 1;
-        rows.codesAfter = rows.codes.size();
-        rows.newCodes = new String[rows.codesAfter - rows.codesBefore];
+        rows.newCodes = new String[rows.codes.size() - rows.codesBefore]; // read here: the table goes on to other scans
         for (int c = 0; c < rows.newCodes.length; c++) {
             rows.newCodes[c] = rows.codes.textAt(rows.codesBefore + c);
         }
@@ -577,9 +574,6 @@ final class ChunkedPanelParse {
         meter.report(whole.rowsRead, whole.rowsRejected + duplicateRows, rowsEmitted);
     }
 
-    /** Distinct security codes of the last chunk taken back: the next chunks' code tables start that large. */
-    private volatile int codesInLastChunk;
-
     /**
      * Code tables between scans. This thread takes a table when it submits a chunk, in file order, and the worker
      * gives it back when the chunk's scan ends, so each table sees its chunks in file order, the order in which this
@@ -592,7 +586,7 @@ final class ChunkedPanelParse {
 
     private TextCache takeCodeTable() {
         TextCache table = spareCodes.poll();
-        return table != null ? table : new TextCache(Integer.MAX_VALUE, codesInLastChunk);
+        return table != null ? table : new TextCache(Integer.MAX_VALUE);
     }
 
     private void assemble(ChunkRows rows) throws SinkException, Unsuitable {
@@ -604,7 +598,6 @@ final class ChunkedPanelParse {
                 throw new Unsuitable("dates not in ascending blocks");
             }
         }
-        codesInLastChunk = rows.codesAfter;
         int[] known = idsOfTable.getOrDefault(rows.codes, new int[0]);
         if (known.length != rows.codesBefore) {
             throw new IllegalStateException("code table out of step: " + known.length + " ids for " + rows.codesBefore + " codes");

@@ -17,28 +17,16 @@ final class TextCache {
     private static final VarHandle INT = MethodHandles.byteArrayViewVarHandle(int[].class, ByteOrder.LITTLE_ENDIAN);
 
     private final int capacityLimit;
-    private byte[][] keys;
-    private String[] texts;
-    private int[] hashes;
-    private int[] indexes;
-    private String[] byIndex;
-    private byte[][] keysByIndex;
+    private byte[][] keys = new byte[1024][];
+    private String[] texts = new String[1024];
+    private int[] hashes = new int[1024];
+    private int[] indexes = new int[1024];
+    private String[] byIndex = new String[64];
+    private byte[][] keysByIndex = new byte[64][];
     private int size;
 
     TextCache(int capacityLimit) {
-        this(capacityLimit, 0);
-    }
-
-    /** With room for {@code expectedTexts} texts before the table first grows. */
-    TextCache(int capacityLimit, int expectedTexts) {
         this.capacityLimit = capacityLimit;
-        int slots = Math.max(1024, Integer.highestOneBit(Math.max(1, Math.min(expectedTexts, 1 << 24)) * 2) * 2);
-        keys = new byte[slots][];
-        texts = new String[slots];
-        hashes = new int[slots];
-        indexes = new int[slots];
-        byIndex = new String[Math.max(64, slots / 2)];
-        keysByIndex = new byte[byIndex.length][];
     }
 
     /**
