@@ -2,6 +2,7 @@ package dev.winnow.app;
 
 import dev.winnow.construct.CrossSection;
 import dev.winnow.stats.LinearRegression;
+import dev.winnow.store.PanelReadAhead;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.StorePanelSource;
 import org.apache.commons.math3.stat.regression.OLSMultipleLinearRegression;
@@ -63,19 +64,21 @@ final class CrossSectionBench {
 
     /** Reads every cross-section of the panel once, in grid order, as the studies do; the median of three reads. */
     private Timing readPanel(String name) throws Exception {
-        PanelStore panels = new PanelStore(jdbi);
-        long id = panels.find(name).orElseThrow().id();
-        return time(1, 3, () -> {
-            StorePanelSource source = new StorePanelSource(panels, id);
-            long rows = 0;
-            for (int t = 0; t < source.dates().size(); t++) {
-                CrossSection cs = source.crossSection(t);
-                rows += cs.size();
-            }
-            if (rows == 0) {
-                throw new IllegalStateException("empty panel " + name);
-            }
-        });
+        try (PanelReadAhead readAhead = PanelReadAhead.perProcessor()) {
+            PanelStore panels = new PanelStore(jdbi, readAhead);
+            long id = panels.find(name).orElseThrow().id();
+            return time(1, 3, () -> {
+                StorePanelSource source = panels.source(id);
+                long rows = 0;
+                for (int t = 0; t < source.dates().size(); t++) {
+                    CrossSection cs = source.crossSection(t);
+                    rows += cs.size();
+                }
+                if (rows == 0) {
+                    throw new IllegalStateException("empty panel " + name);
+                }
+            });
+        }
     }
 
     /**

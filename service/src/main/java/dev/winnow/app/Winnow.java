@@ -13,6 +13,7 @@ import dev.winnow.store.JobKind;
 import dev.winnow.jobs.JobQueue;
 import dev.winnow.jobs.JobResources;
 import dev.winnow.jobs.JobWorker;
+import dev.winnow.construct.FormingThreads;
 import dev.winnow.research.Breadth;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.research.FactorDefinitions;
@@ -40,6 +41,7 @@ import dev.winnow.store.FamilyStore;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsStore;
+import dev.winnow.store.PanelReadAhead;
 import dev.winnow.store.PanelStore;
 import dev.winnow.store.TokenStore;
 import io.javalin.Javalin;
@@ -65,6 +67,8 @@ public final class Winnow implements AutoCloseable {
     private final String generatedAdminToken;
     private final DemoLoader demo;
     private final StudyThreads studyThreads;
+    private final PanelReadAhead readAhead;
+    private final FormingThreads forming;
 
     private Winnow(Config config) throws IOException {
         requireWritable(config.dataDir());
@@ -76,7 +80,9 @@ public final class Winnow implements AutoCloseable {
         this.changes = embedded ? new LocalChangeFeed() : PostgresChangeFeed.start(database);
         TokenStore tokens = new TokenStore(jdbi, changes);
         JobStore jobs = new JobStore(jdbi);
-        PanelStore panels = new PanelStore(jdbi);
+        this.readAhead = PanelReadAhead.perProcessor();
+        this.forming = FormingThreads.perProcessor();
+        PanelStore panels = new PanelStore(jdbi, readAhead);
         FactorStore factors = new FactorStore(jdbi, changes);
         metrics.watchQueue(jobs);
         metrics.watchSeriesCache(factors);
@@ -105,7 +111,7 @@ public final class Winnow implements AutoCloseable {
             LOG.info("queued {} factor build(s) whose job was lost in an interrupted run", rebuilds);
         }
         FactorDefinitions definitions = new FactorDefinitions(factors, panels, queue);
-        FactorBuilds builds = new FactorBuilds(panels, factors);
+        FactorBuilds builds = new FactorBuilds(panels, factors, forming);
         LoadingsRefresh loadingsRefresh = new LoadingsRefresh(panels, factors, loadings);
         Map<JobKind, JobHandler> handlers = JobHandlers.create(panels, factors, builds, loadingsRefresh, spool, database);
         Config.Instance instance = config.instance();
@@ -114,7 +120,7 @@ public final class Winnow implements AutoCloseable {
                         metrics.jobObserver())
                 : null;
         this.demo = new DemoLoader(panels, factors, jobs, queue, spool, definitions);
-        Breadth breadth = new Breadth(panels, factors);
+        Breadth breadth = new Breadth(panels, factors, forming);
         TrialLibrary library = new TrialLibrary(factors);
         Families families = new Families(new FamilyStore(jdbi), factors, definitions, queue, library);
         this.studyThreads = StudyThreads.perProcessor();
@@ -323,6 +329,8 @@ public final class Winnow implements AutoCloseable {
             }
         }
         studyThreads.close();
+        forming.close();
+        readAhead.close();
         database.close();
         metrics.close();
     }

@@ -37,16 +37,18 @@ public final class CheckpointedBuild {
      * @param observationsBefore  observations stored before {@code resume} (0 from scratch), for the checkpoints' counts
      * @param missingBefore       periods without return before {@code resume} (0 from scratch), likewise
      * @param segmentDates        grid dates per segment, at least 1
+     * @param forming             the threads a segment of {@link FactorEngine#FORMED_AHEAD_MIN_DATES} dates or more
+     *                            forms ahead on ({@link FormingThreads#NONE}: all on the caller's thread; same bits)
      */
     public static Result run(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume,
-                             int observationsBefore, int missingBefore, int segmentDates) {
-        return run(def, panel, riskFree, Map.of(), resume, observationsBefore, missingBefore, segmentDates);
+                             int observationsBefore, int missingBefore, int segmentDates, FormingThreads forming) {
+        return run(def, panel, riskFree, Map.of(), resume, observationsBefore, missingBefore, segmentDates, forming);
     }
 
     /** As above, with the return series of the factors the signal recipe reads. */
     public static Result run(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
                              Map<String, ReturnSeries> signalFactors, EngineState resume,
-                             int observationsBefore, int missingBefore, int segmentDates) {
+                             int observationsBefore, int missingBefore, int segmentDates, FormingThreads forming) {
         if (segmentDates < 1) {
             throw new IllegalArgumentException("checkpoint segments need at least 1 grid date, got " + segmentDates);
         }
@@ -60,7 +62,7 @@ public final class CheckpointedBuild {
         int missing = 0;
         BuildResult last = null;
         for (int end = (done / segmentDates + 1) * segmentDates; end <= total; end += segmentDates) {
-            last = FactorEngine.build(def, new PanelPrefix(panel, end), riskFree, signalFactors, state);
+            last = FactorEngine.build(def, new PanelPrefix(panel, end), riskFree, signalFactors, state, forming);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
             portfolios.addAll(last.portfolioObservations());
@@ -69,7 +71,7 @@ public final class CheckpointedBuild {
             checkpoints.add(new Checkpoint(state, observationsBefore + observations.size(), missingBefore + missing));
         }
         if (last == null || state.processedDates() < total) {
-            last = FactorEngine.build(def, panel, riskFree, signalFactors, state);
+            last = FactorEngine.build(def, panel, riskFree, signalFactors, state, forming);
             observations.addAll(last.observations());
             formations.addAll(last.formations());
             portfolios.addAll(last.portfolioObservations());

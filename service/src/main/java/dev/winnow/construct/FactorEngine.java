@@ -29,6 +29,8 @@ public final class FactorEngine {
     }
 
     /**
+     * Builds on the caller's thread alone ({@link FormingThreads#NONE}).
+     *
      * @param def           a buildable definition (not EXTERNAL); checked by {@link DefinitionValidator}
      * @param panel         the panel; when resuming, its grid must start with the grid the state was built on
      * @param riskFree      the series named by {@code def.riskFree()}, or null when the definition names none
@@ -36,7 +38,7 @@ public final class FactorEngine {
      * @return the observations and formations after the state's last processed date, and the new end state
      */
     public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, EngineState resume) {
-        return build(def, panel, riskFree, Map.of(), resume);
+        return build(def, panel, riskFree, Map.of(), resume, FormingThreads.NONE);
     }
 
     /**
@@ -46,6 +48,17 @@ public final class FactorEngine {
      */
     public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
                                     Map<String, ReturnSeries> signalFactors, EngineState resume) {
+        return build(def, panel, riskFree, signalFactors, resume, FormingThreads.NONE);
+    }
+
+    /**
+     * As {@link #build(FactorDefinition, PanelSource, ReturnSeries, Map, EngineState)}; a build of at least
+     * {@value #FORMED_AHEAD_MIN_DATES} dates makes its formations on one of the {@code forming} threads, ahead of the
+     * caller's thread, which holds the book. The result is the same bits as on one thread.
+     */
+    public static BuildResult build(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                                    Map<String, ReturnSeries> signalFactors, EngineState resume, FormingThreads forming) {
+        Objects.requireNonNull(forming, "forming");
         DefinitionValidator.requireBuildable(def);
         Objects.requireNonNull(panel, "panel");
         if (def.riskFree() != null && riskFree == null) {
@@ -59,7 +72,7 @@ public final class FactorEngine {
         if (resume != null) {
             checkResumable(def, dates, resume);
         }
-        return new Run(def, panel, dates, riskFree, signalFactors, resume).execute();
+        return new Run(def, panel, dates, riskFree, signalFactors, resume).execute(forming);
     }
 
     /**
@@ -221,23 +234,14 @@ public final class FactorEngine {
         }
     }
 
-    /** Builds over at least this many dates form ahead on a second thread ({@code Run.executeFormingAhead}). */
+    /**
+     * Builds over at least this many dates form ahead on a forming thread, when given {@link FormingThreads}
+     * ({@code Run.executeFormingAhead}).
+     */
     static final int FORMED_AHEAD_MIN_DATES = 64;
 
     /** How many dates the forming thread may run ahead of the thread that holds the book. */
     private static final int FORMED_AHEAD = 16;
-
-    /**
-     * The forming threads: one per build in progress, created when needed and kept a minute for the next build;
-     * daemon threads, so they never keep the process alive. None on a single processor, where builds stay on one
-     * thread.
-     */
-    private static final java.util.concurrent.ExecutorService FORMING_THREADS =
-            Runtime.getRuntime().availableProcessors() < 2 ? null : java.util.concurrent.Executors.newCachedThreadPool(r -> {
-                Thread t = new Thread(r, "factor-forming");
-                t.setDaemon(true);
-                return t;
-            });
 
     /** One pass over the grid from the start index to the end. */
     private static final class Run {
@@ -293,10 +297,8 @@ public final class FactorEngine {
         private boolean trackFormations;
         private LegWeights[] lastFormed;
 
-        BuildResult execute() {
-            if (dates.size() - start >= FORMED_AHEAD_MIN_DATES && FORMING_THREADS != null) {
-                executeFormingAhead();
-            } else {
+        BuildResult execute(FormingThreads forming) {
+            if (dates.size() - start < FORMED_AHEAD_MIN_DATES || !executeFormingAhead(forming)) {
                 prime();
                 for (int t = start; t < dates.size(); t++) {
                     step(t);
@@ -368,11 +370,13 @@ public final class FactorEngine {
          * forming thread runs at most {@value #FORMED_AHEAD} dates ahead, and stops when this thread fails: told by
          * a flag, never by an interrupt, since an interrupt that meets the panel's store inside a file read closes
          * the store's file.
+         *
+         * @return false, having done nothing, when {@code threads} has no thread to give (the caller builds on one)
          */
-        private void executeFormingAhead() {
+        private boolean executeFormingAhead(FormingThreads threads) {
             java.util.concurrent.BlockingQueue<Formed> handOver = new java.util.concurrent.ArrayBlockingQueue<>(FORMED_AHEAD);
             java.util.concurrent.atomic.AtomicBoolean abandoned = new java.util.concurrent.atomic.AtomicBoolean();
-            java.util.concurrent.Future<?> forming = FORMING_THREADS.submit(() -> {
+            java.util.concurrent.Future<?> forming = threads.start(() -> {
                 try {
                     prime();
                     for (int t = start; t < dates.size() && !abandoned.get(); t++) {
@@ -398,6 +402,9 @@ public final class FactorEngine {
                     }
                 }
             });
+            if (forming == null) {
+                return false;
+            }
             boolean done = false;
             try {
                 for (int t = start; t < dates.size(); t++) {
@@ -421,6 +428,7 @@ public final class FactorEngine {
                 }
                 forming.get(); // its last steps happen before this build's end
                 done = true;
+                return true;
             } catch (InterruptedException e) {
                 Thread.currentThread().interrupt();
                 throw new IllegalStateException("interrupted while building", e);

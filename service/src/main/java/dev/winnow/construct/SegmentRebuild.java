@@ -6,6 +6,7 @@ import dev.winnow.stats.ReturnSeries;
 import java.time.LocalDate;
 import java.util.ArrayList;
 import java.util.List;
+import java.util.Map;
 import java.util.TreeSet;
 
 /**
@@ -32,21 +33,25 @@ public final class SegmentRebuild {
         return def.method() != null && def.method() != Method.EXTERNAL;
     }
 
-    /** The factor rebuilt in the small and the big half of market_cap at each formation, in that order. */
-    public static List<Segment> bySizeHalf(FactorDefinition def, PanelSource panel, ReturnSeries riskFree) {
+    /**
+     * The factor rebuilt in the small and the big half of market_cap at each formation, in that order; each build
+     * forms ahead on {@code forming} ({@link FormingThreads#NONE}: on the caller's thread; same bits).
+     */
+    public static List<Segment> bySizeHalf(FactorDefinition def, PanelSource panel, ReturnSeries riskFree,
+                                           FormingThreads forming) {
         List<Segment> out = new ArrayList<>();
-        out.add(new Segment("small", spread(def.withUniverse(def.effectiveUniverse().withSizeHalf(SizeHalf.SMALL)), panel, riskFree)));
-        out.add(new Segment("big", spread(def.withUniverse(def.effectiveUniverse().withSizeHalf(SizeHalf.BIG)), panel, riskFree)));
+        out.add(new Segment("small", spread(def.withUniverse(def.effectiveUniverse().withSizeHalf(SizeHalf.SMALL)), panel, riskFree, forming)));
+        out.add(new Segment("big", spread(def.withUniverse(def.effectiveUniverse().withSizeHalf(SizeHalf.BIG)), panel, riskFree, forming)));
         return out;
     }
 
-    /** The factor rebuilt once per given value of a label column, in the order given. */
+    /** The factor rebuilt once per given value of a label column, in the order given; forming as {@link #bySizeHalf}. */
     public static List<Segment> byLabel(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, String column,
-                                        List<String> values) {
+                                        List<String> values, FormingThreads forming) {
         List<Segment> out = new ArrayList<>();
         for (String value : values) {
             Universe inside = def.effectiveUniverse().withSegment(new LabelEquals(column, value));
-            out.add(new Segment(value, spread(def.withUniverse(inside), panel, riskFree)));
+            out.add(new Segment(value, spread(def.withUniverse(inside), panel, riskFree, forming)));
         }
         return out;
     }
@@ -64,8 +69,8 @@ public final class SegmentRebuild {
         return List.copyOf(values);
     }
 
-    private static ReturnSeries spread(FactorDefinition def, PanelSource panel, ReturnSeries riskFree) {
-        BuildResult result = FactorEngine.build(def, panel, riskFree, null);
+    private static ReturnSeries spread(FactorDefinition def, PanelSource panel, ReturnSeries riskFree, FormingThreads forming) {
+        BuildResult result = FactorEngine.build(def, panel, riskFree, Map.of(), null, forming);
         List<FactorObservation> observations = result.observations();
         LocalDate[] dates = new LocalDate[observations.size()];
         double[] values = new double[observations.size()];

@@ -5,6 +5,7 @@ import com.fasterxml.jackson.databind.PropertyNamingStrategies;
 import com.fasterxml.jackson.databind.annotation.JsonNaming;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.PanelSource;
+import dev.winnow.construct.FormingThreads;
 import dev.winnow.construct.SegmentRebuild;
 import dev.winnow.research.TrialLibrary.Trial;
 import dev.winnow.stats.EvidenceVerdicts;
@@ -16,7 +17,6 @@ import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.PanelStore;
-import dev.winnow.store.StorePanelSource;
 
 import java.util.ArrayList;
 import java.util.List;
@@ -34,10 +34,13 @@ public final class Breadth {
 
     private final PanelStore panels;
     private final FactorStore factors;
+    private final FormingThreads forming;
 
-    public Breadth(PanelStore panels, FactorStore factors) {
+    /** @param forming the threads each segment's build forms ahead on, shared with the service */
+    public Breadth(PanelStore panels, FactorStore factors, FormingThreads forming) {
         this.panels = panels;
         this.factors = factors;
+        this.forming = java.util.Objects.requireNonNull(forming, "forming");
     }
 
     /** Answers 400 unless {@code column} is a label column of the factor's panel (nothing to check without a panel). */
@@ -80,17 +83,17 @@ public final class Breadth {
             }
             riskFree = factors.series(rf.get().factorId(), rf.get().version(), FactorStore.Leg.SPREAD);
         }
-        PanelSource panel = new StorePanelSource(panels, panelId);
+        PanelSource panel = panels.source(panelId);
         List<SegmentRebuild.Segment> segments;
         if (column == null) {
-            segments = SegmentRebuild.bySizeHalf(def, panel, riskFree);
+            segments = SegmentRebuild.bySizeHalf(def, panel, riskFree, forming);
         } else {
             List<String> values = SegmentRebuild.distinctLabels(panel, column);
             if (values.size() > MAX_SEGMENTS) {
                 throw new InvalidRequestException("Label column '" + column + "' has " + values.size() + " distinct values; breadth rebuilds the factor "
                         + "once per value, at most " + MAX_SEGMENTS + ". Choose a coarser label column.");
             }
-            segments = SegmentRebuild.byLabel(def, panel, riskFree, column, values);
+            segments = SegmentRebuild.byLabel(def, panel, riskFree, column, values, forming);
         }
         List<PeriodStatistics> statistics = new ArrayList<>();
         List<SegmentRow> rows = new ArrayList<>();

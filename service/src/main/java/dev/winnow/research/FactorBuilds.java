@@ -6,6 +6,7 @@ import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.EngineState;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorEngine;
+import dev.winnow.construct.FormingThreads;
 import dev.winnow.construct.Holdings;
 import dev.winnow.construct.FactorObservation;
 import dev.winnow.construct.PortfolioObservation;
@@ -45,19 +46,22 @@ public final class FactorBuilds {
 
     private final PanelStore panels;
     private final FactorStore factors;
+    private final FormingThreads forming;
     private final int checkpointDates;
 
-    public FactorBuilds(PanelStore panels, FactorStore factors) {
-        this(panels, factors, CHECKPOINT_DATES);
+    /** @param forming the threads a build forms ahead on, shared with the service */
+    public FactorBuilds(PanelStore panels, FactorStore factors, FormingThreads forming) {
+        this(panels, factors, forming, CHECKPOINT_DATES);
     }
 
     /** With another checkpoint spacing, so tests can have several checkpoints on a short panel. */
-    FactorBuilds(PanelStore panels, FactorStore factors, int checkpointDates) {
+    FactorBuilds(PanelStore panels, FactorStore factors, FormingThreads forming, int checkpointDates) {
         if (checkpointDates < 1) {
             throw new IllegalArgumentException("checkpoint spacing must be at least 1 grid date, got " + checkpointDates);
         }
         this.panels = panels;
         this.factors = factors;
+        this.forming = java.util.Objects.requireNonNull(forming, "forming");
         this.checkpointDates = checkpointDates;
     }
 
@@ -71,7 +75,7 @@ public final class FactorBuilds {
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
     public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
-        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates);
+        CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates, forming);
         Map<String, Object> report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
@@ -109,7 +113,7 @@ public final class FactorBuilds {
         long totalDates = 0;
         Map<Long, StorePanelSource> sources = new LinkedHashMap<>();
         for (Long panelId : byPanel.keySet()) {
-            StorePanelSource source = new StorePanelSource(panels, panelId, columns.get(panelId)::contains);
+            StorePanelSource source = panels.source(panelId, columns.get(panelId)::contains);
             sources.put(panelId, source);
             totalDates += source.dates().size();
         }
@@ -146,7 +150,7 @@ public final class FactorBuilds {
         int previousMissing = ((Number) previous.getOrDefault("periods_without_return", 0)).intValue();
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
         CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), state,
-                previousObservations, previousMissing, checkpointDates);
+                previousObservations, previousMissing, checkpointDates, forming);
         Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
         return report;
@@ -173,7 +177,7 @@ public final class FactorBuilds {
             return report;
         }
         CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, riskFree(def), signalFactors(def), EngineState.fromBytes(checkpoint.state()),
-                checkpoint.observations(), checkpoint.periodsWithoutReturn(), checkpointDates);
+                checkpoint.observations(), checkpoint.periodsWithoutReturn(), checkpointDates, forming);
         Map<String, Object> report = report(run.build(), checkpoint.observations(), checkpoint.periodsWithoutReturn());
         report.put("rebuilt_from", checkpoint.lastDate().toString());
         report.put("recomputed_dates", panel.dates().size() - checkpoint.processedDates());
@@ -317,7 +321,7 @@ public final class FactorBuilds {
         if (v.panelId() == null) {
             throw new FactorBuildException("factor '" + v.name() + "' has no panel to build from");
         }
-        return new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
+        return panels.source(v.panelId(), def.columnsRead()::contains);
     }
 
     private ReturnSeries riskFree(FactorDefinition def) throws FactorBuildException {

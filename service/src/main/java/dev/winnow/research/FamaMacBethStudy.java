@@ -94,7 +94,7 @@ public final class FamaMacBethStudy {
             columns.addAll(recipe.numberColumns());
             columns.addAll(recipe.labelColumns());
         }
-        StorePanelSource source = new StorePanelSource(panels, panel.id(), columns::contains);
+        StorePanelSource source = panels.source(panel.id(), columns::contains);
         List<CrossSectionSignal> signals = new ArrayList<>();
         for (Recipe recipe : request.signals().values()) {
             signals.add(CrossSectionSignal.of(recipe, source, signalFactors(recipe)));

@@ -74,7 +74,7 @@ public final class InformationCoefficients {
             throw new InvalidRequestException("Factor '" + v.name() + "' has no panel.");
         }
         // only the columns the definition reads are decoded
-        StorePanelSource panel = new StorePanelSource(panels, v.panelId(), def.columnsRead()::contains);
+        StorePanelSource panel = panels.source(v.panelId(), def.columnsRead()::contains);
         Map<String, ReturnSeries> signalFactors = new LinkedHashMap<>();
         for (String name : def.signal().factors()) {
             FactorVersionRecord f = factors.catalog().current(name).orElseThrow(() -> new InvalidRequestException(

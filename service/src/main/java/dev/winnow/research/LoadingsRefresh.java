@@ -134,7 +134,7 @@ public final class LoadingsRefresh {
 
     private Inputs resolve(long panelId, LoadingsSpec spec) {
         var versions = LoadingsFactors.currentVersions(factors, spec.factors());
-        StorePanelSource panel = new StorePanelSource(panels, panelId);
+        StorePanelSource panel = panels.source(panelId);
         FactorGrid grid = FactorGrid.align(LoadingsFactors.series(factors, versions), panel.dates());
         return new Inputs(spec, LoadingsStore.fingerprint(spec, versions), panel, grid);
     }

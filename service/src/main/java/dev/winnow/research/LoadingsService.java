@@ -87,7 +87,7 @@ public final class LoadingsService {
         if (securityId < 0) {
             throw new UnknownNameException("Panel '" + panel.name() + "' has no security '" + security + "'.");
         }
-        StorePanelSource source = new StorePanelSource(panels, panel.id());
+        StorePanelSource source = panels.source(panel.id());
         List<LocalDate> grid = source.dates();
         int fromIndex = from == null ? 0 : PanelDates.insertionPoint(grid, from);
         int toIndex = to == null ? grid.size() - 1 : PanelDates.insertionPoint(grid, to.plusDays(1)) - 1;
@@ -176,7 +176,7 @@ public final class LoadingsService {
 
     /** Loadings computed now from the panel's slices and the factors' current series. */
     private LoadingsTable compute(PanelRecord panel, LocalDate date, Regression regression) {
-        StorePanelSource source = new StorePanelSource(panels, panel.id());
+        StorePanelSource source = panels.source(panel.id());
         int index = PanelDates.index(source.dates(), date, panel.name());
         FactorGrid grid = FactorGrid.align(LoadingsFactors.series(factors, regression.versions()), source.dates());
         return SecurityLoadings.at(source, grid, index, regression.spec().window(), regression.spec().minObs());

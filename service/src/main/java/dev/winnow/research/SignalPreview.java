@@ -108,7 +108,7 @@ public final class SignalPreview {
                 }
             }
         }
-        StorePanelSource source = new StorePanelSource(panels, panel.id());
+        StorePanelSource source = panels.source(panel.id());
         List<LocalDate> grid = source.dates();
         int k = grid.size() - 1;
         if (date != null) {

@@ -28,9 +28,25 @@ public final class PanelStore {
     private static final String VISIBLE = "JOIN uploads u ON u.id = s.upload_id AND u.state = 'committed'";
 
     private final Jdbi jdbi;
+    private final PanelReadAhead readAhead;
 
-    public PanelStore(Jdbi jdbi) {
+    /** @param readAhead the threads its {@link #source sources} read the next block on, shared with the service */
+    public PanelStore(Jdbi jdbi, PanelReadAhead readAhead) {
         this.jdbi = jdbi;
+        this.readAhead = java.util.Objects.requireNonNull(readAhead, "readAhead");
+    }
+
+    /** The committed panel read in date order, every extra column decoded ({@link StorePanelSource}). */
+    public StorePanelSource source(long panelId) {
+        return source(panelId, name -> true);
+    }
+
+    /**
+     * The committed panel read in date order, decoding only the extra columns {@code columns} accepts (ids, returns
+     * and market caps always); the others read as absent.
+     */
+    public StorePanelSource source(long panelId, java.util.function.Predicate<String> columns) {
+        return new StorePanelSource(this, readAhead, panelId, columns);
     }
 
     public record PanelRecord(long id, String name, LocalDate firstDate, LocalDate lastDate, int dateCount, long rowCount,

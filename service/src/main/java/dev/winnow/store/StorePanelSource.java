@@ -7,12 +7,7 @@ import java.time.LocalDate;
 import java.util.List;
 import java.util.concurrent.CancellationException;
 import java.util.concurrent.ExecutionException;
-import java.util.concurrent.ExecutorService;
 import java.util.concurrent.FutureTask;
-import java.util.concurrent.LinkedBlockingQueue;
-import java.util.concurrent.ThreadPoolExecutor;
-import java.util.concurrent.TimeUnit;
-import java.util.concurrent.atomic.AtomicInteger;
 import java.util.function.Predicate;
 
 /**
@@ -25,17 +20,13 @@ import java.util.function.Predicate;
  * construction. At most one block is read ahead, so memory stays three blocks whatever the panel's length. A block
  * asked for before its read ahead has started is read by the caller itself (the read ahead is cancelled), so a busy
  * pool never makes a reader wait for other readers' work; a failed read ahead fails the caller's read with its error.
+ * The threads are the service's {@link PanelReadAhead}; sources are opened by {@link PanelStore#source}.
  */
 public final class StorePanelSource implements PanelSource {
     static final int BLOCK = 32;
 
-    /**
-     * The threads that read blocks ahead, shared by every source of the process: one per processor (at least two),
-     * daemon threads that end after a minute without work.
-     */
-    private static final ExecutorService READ_AHEAD = readAheadPool();
-
     private final PanelStore panels;
+    private final PanelReadAhead readAhead;
     private final long panelId;
     private final List<LocalDate> dates;
     private final Predicate<String> columns;
@@ -46,13 +37,10 @@ public final class StorePanelSource implements PanelSource {
     private int aheadStart = -1;
     private FutureTask<List<CrossSection>> ahead;
 
-    public StorePanelSource(PanelStore panels, long panelId) {
-        this(panels, panelId, name -> true);
-    }
-
     /** @param columns the extra columns to decode; the others read as absent (all missing) */
-    public StorePanelSource(PanelStore panels, long panelId, Predicate<String> columns) {
+    StorePanelSource(PanelStore panels, PanelReadAhead readAhead, long panelId, Predicate<String> columns) {
         this.panels = panels;
+        this.readAhead = readAhead;
         this.panelId = panelId;
         this.columns = columns;
         this.dates = List.copyOf(panels.dates(panelId));
@@ -85,9 +73,11 @@ public final class StorePanelSource implements PanelSource {
         block = loaded;
         int next = start + BLOCK;
         if ((inOrder || start == 0) && next < dates.size()) {
-            aheadStart = next;
-            ahead = new FutureTask<>(() -> read(next));
-            READ_AHEAD.execute(ahead);
+            FutureTask<List<CrossSection>> task = new FutureTask<>(() -> read(next));
+            if (readAhead.start(task)) {
+                aheadStart = next;
+                ahead = task;
+            }
         }
         return block.get(index - start);
     }
@@ -127,17 +117,5 @@ public final class StorePanelSource implements PanelSource {
         if (ahead != null) {
             ahead.cancel(false);
         }
-    }
-
-    private static ExecutorService readAheadPool() {
-        int threads = Math.max(2, Runtime.getRuntime().availableProcessors());
-        AtomicInteger count = new AtomicInteger();
-        ThreadPoolExecutor pool = new ThreadPoolExecutor(threads, threads, 60, TimeUnit.SECONDS, new LinkedBlockingQueue<>(), r -> {
-            Thread t = new Thread(r, "panel-read-ahead-" + count.incrementAndGet());
-            t.setDaemon(true);
-            return t;
-        });
-        pool.allowCoreThreadTimeOut(true);
-        return pool;
     }
 }

@@ -2,7 +2,7 @@ package dev.winnow.app;
 
 import dev.winnow.api.TestServer;
 import dev.winnow.store.FactorStore;
-import dev.winnow.store.PanelStore;
+import dev.winnow.store.TestDatabase;
 import org.junit.jupiter.api.Test;
 
 import static org.junit.jupiter.api.Assertions.assertEquals;
@@ -18,7 +18,7 @@ class OrphanedBuildRecoveryTest {
         try (TestServer server = new TestServer()) {
             server.upload("/v1/panels/p/uploads", "date,security,return,score\n"
                     + "2020-01-31,A,0.01,1\n2020-01-31,B,0.02,2\n2020-02-29,A,0.03,1\n2020-02-29,B,-0.01,2\n");
-            long panelId = new PanelStore(server.winnow().jdbi()).find("p").orElseThrow().id();
+            long panelId = TestDatabase.panels(server.winnow().jdbi()).find("p").orElseThrow().id();
             // what a crash right after the definition's commit leaves behind: the version, and no job
             new FactorStore(server.winnow().jdbi()).define("orphan",
                     "{\"method\":\"sort\",\"panel\":\"p\",\"signal\":\"score\",\"buckets\":2}", dev.winnow.construct.FactorDefinition.Method.SORT, panelId);

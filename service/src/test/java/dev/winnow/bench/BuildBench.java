@@ -1,6 +1,7 @@
 package dev.winnow.bench;
 
 import dev.winnow.construct.CheckpointedBuild;
+import dev.winnow.construct.ConstructionFixtures;
 import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.FactorDefinition;
@@ -17,6 +18,7 @@ import dev.winnow.store.FactorStore;
 import dev.winnow.store.JobKind;
 import dev.winnow.store.JobStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.TestDatabase;
 import dev.winnow.store.SecurityDictionary;
 import dev.winnow.store.SliceStager;
 import dev.winnow.store.StorePanelSource;
@@ -75,14 +77,14 @@ public final class BuildBench {
         String url = "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0";
         Database db = Database.open(url);
         try {
-            PanelStore panels = new PanelStore(db.jdbi());
+            PanelStore panels = TestDatabase.panels(db.jdbi());
             long panelId = reuse ? panels.find("bench").orElseThrow().id() : ingest(db, panels, csv, dir);
             if (keep != null && !reuse) {
                 db.close();
                 Files.createDirectories(keep);
                 Files.copy(dir.resolve("store.mv.db"), keep.resolve("store.mv.db"));
                 db = Database.open(url);
-                panels = new PanelStore(db.jdbi());
+                panels = TestDatabase.panels(db.jdbi());
             }
             FactorDefinition def = DefinitionJson.read(SORT).definition();
             FactorStore factors = new FactorStore(db.jdbi());
@@ -93,7 +95,7 @@ public final class BuildBench {
                 long c3 = THREADS.getCurrentThreadCpuTime();
                 long p3 = processCpuNanos();
                 long t3 = System.nanoTime();
-                new FactorBuilds(panels, factors).rebuild(v);
+                new FactorBuilds(panels, factors, ConstructionFixtures.FORMING).rebuild(v);
                 long t4 = System.nanoTime();
                 long c4 = THREADS.getCurrentThreadCpuTime();
                 long p4 = processCpuNanos();
@@ -102,7 +104,7 @@ public final class BuildBench {
                         ManagementFactory.getOperatingSystemMXBean().getSystemLoadAverage());
                 long c0 = THREADS.getCurrentThreadCpuTime();
                 long t0 = System.nanoTime();
-                StorePanelSource source = new StorePanelSource(panels, panelId, def.columnsRead()::contains);
+                StorePanelSource source = panels.source(panelId, def.columnsRead()::contains);
                 long rows = 0;
                 for (int i = 0; i < source.dates().size(); i++) {
                     CrossSection cs = source.crossSection(i);
@@ -110,8 +112,8 @@ public final class BuildBench {
                 }
                 long t1 = System.nanoTime();
                 long c1 = THREADS.getCurrentThreadCpuTime();
-                StorePanelSource again = new StorePanelSource(panels, panelId, def.columnsRead()::contains);
-                CheckpointedBuild.Result result = CheckpointedBuild.run(def, again, null, null, 0, 0, 252);
+                StorePanelSource again = panels.source(panelId, def.columnsRead()::contains);
+                CheckpointedBuild.Result result = CheckpointedBuild.run(def, again, null, null, 0, 0, 252, ConstructionFixtures.FORMING);
                 long t2 = System.nanoTime();
                 long c2 = THREADS.getCurrentThreadCpuTime();
                 System.out.printf(Locale.ROOT, "       peer: read+decode %d dates (%,d rows) %.3f s wall %.3f s CPU; "

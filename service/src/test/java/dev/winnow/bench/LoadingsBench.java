@@ -15,7 +15,6 @@ import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.LoadingsFactors;
 import dev.winnow.store.LoadingsStore;
 import dev.winnow.store.LoadingsTestStore;
-import dev.winnow.store.StorePanelSource;
 import io.javalin.Javalin;
 
 import java.net.URI;
@@ -84,7 +83,7 @@ public final class LoadingsBench {
                 store.extendFactor(names.get(j), dates, f[j], last, null);
             }
             report("one new date, from the H2 store, on the fly (reads 252 slices)", 3, () -> SecurityLoadings.at(
-                    new StorePanelSource(store.panels, panelId), series, last, WINDOW, WINDOW / 2));
+                    store.panels.source(panelId), series, last, WINDOW, WINDOW / 2));
             report("upload hook for one appended date (read, compute, store)", 3,
                     () -> refresh.afterUpload(panelId, List.of(dates.get(last)), false));
 

@@ -36,7 +36,7 @@ class BuildTogetherTest {
             for (int i = 0; i < defs.size(); i++) {
                 FactorEngine.Member m = members.get(i);
                 CheckpointedBuild.Result alone = CheckpointedBuild.run(m.definition(), panel, m.riskFree(), m.signalFactors(),
-                        null, 0, 0, spacing);
+                        null, 0, 0, spacing, ConstructionFixtures.FORMING);
                 String what = "definition " + i + " every " + spacing;
                 ConstructionFixtureTest.assertBitwiseEqual(alone.build().observations(), together.get(i).build().observations(), what);
                 assertEquals(alone.build().formations(), together.get(i).build().formations(), what);

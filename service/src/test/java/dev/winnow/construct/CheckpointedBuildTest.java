@@ -29,12 +29,12 @@ class CheckpointedBuildTest {
         return definitions.entrySet().stream().map(e -> DynamicTest.dynamicTest(e.getKey(), () -> {
             FactorDefinition def = e.getValue();
             ReturnSeries rf = def.riskFree() == null ? null : RISK_FREE;
-            BuildResult full = FactorEngine.build(def, PANEL, rf, null);
+            BuildResult full = FactorEngine.build(def, PANEL, rf, Map.of(), null, ConstructionFixtures.FORMING);
             int total = PANEL.dates().size();
             assertTrue(total >= FactorEngine.FORMED_AHEAD_MIN_DATES, "the one-pass build must form ahead");
             for (int spacing : new int[] {1, 2, 7, 27, total, total + 1}) {
                 String where = e.getKey() + " every " + spacing;
-                CheckpointedBuild.Result run = CheckpointedBuild.run(def, PANEL, rf, null, 0, 0, spacing);
+                CheckpointedBuild.Result run = CheckpointedBuild.run(def, PANEL, rf, null, 0, 0, spacing, ConstructionFixtures.FORMING);
                 assertSameBuild(full, run.build(), where);
                 List<CheckpointedBuild.Checkpoint> checkpoints = run.checkpoints();
                 assertEquals(total / spacing, checkpoints.size(), where);
@@ -47,7 +47,8 @@ class CheckpointedBuildTest {
                     assertEquals(prefix.periodsWithoutReturn(), c.periodsWithoutReturn(), where + " missing at " + k);
 
                     CheckpointedBuild.Result resumed = CheckpointedBuild.run(def, PANEL, rf,
-                            EngineState.fromBytes(c.state().toBytes()), c.observations(), c.periodsWithoutReturn(), spacing);
+                            EngineState.fromBytes(c.state().toBytes()), c.observations(), c.periodsWithoutReturn(), spacing,
+                            ConstructionFixtures.FORMING);
                     assertArrayEquals(full.endState().toBytes(), resumed.build().endState().toBytes(), where + " resumed at " + k);
                     assertEquals(full.observations().size(), c.observations() + resumed.build().observations().size());
                     assertEquals(checkpoints.subList(checkpoints.indexOf(c) + 1, checkpoints.size()).stream()

@@ -13,6 +13,12 @@ import java.util.stream.IntStream;
  * {@code fixture}).
  */
 public final class ConstructionFixtures {
+    /**
+     * The forming threads of the construction tests' builds (a service wires its own): one set for the test run,
+     * as one service has one; its daemon threads end a minute after the last build.
+     */
+    public static final FormingThreads FORMING = FormingThreads.perProcessor();
+
     private static final String DIR = "/fixtures/";
 
     private ConstructionFixtures() {

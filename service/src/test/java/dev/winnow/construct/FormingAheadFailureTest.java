@@ -38,7 +38,7 @@ class FormingAheadFailureTest {
         assertTrue(dates >= FactorEngine.FORMED_AHEAD_MIN_DATES, "the build must form ahead");
         for (int bad : new int[] {3, dates / 2, dates - 1}) {
             IllegalArgumentException e = assertThrows(IllegalArgumentException.class,
-                    () -> FactorEngine.build(sort.getValue(), brokenAt(bad), null, null), sort.getKey() + " broken at " + bad);
+                    () -> FactorEngine.build(sort.getValue(), brokenAt(bad), null, Map.of(), null, ConstructionFixtures.FORMING), sort.getKey() + " broken at " + bad);
             assertTrue(e.getMessage().contains("grid date #" + bad), e.getMessage());
         }
     }

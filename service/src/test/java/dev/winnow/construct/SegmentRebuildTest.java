@@ -34,7 +34,7 @@ class SegmentRebuildTest {
     @Test
     void smallHalfOfAQuintileSortMatchesPandas() {
         FactorDefinition whole = DefinitionSpec.parse("fixture", specs.get("sort_bm_small_half").replace(";size_half=small", ""));
-        List<SegmentRebuild.Segment> halves = SegmentRebuild.bySizeHalf(whole, panel, null);
+        List<SegmentRebuild.Segment> halves = SegmentRebuild.bySizeHalf(whole, panel, null, ConstructionFixtures.FORMING);
         assertEquals(List.of("small", "big"), halves.stream().map(SegmentRebuild.Segment::value).toList());
         assertMatches("sort_bm_small_half", halves.get(0).spread());
     }
@@ -42,7 +42,7 @@ class SegmentRebuildTest {
     @Test
     void bigHalfOfTheMarketMatchesPandas() {
         FactorDefinition whole = DefinitionSpec.parse("fixture", specs.get("market_eq_quarterly_big").replace(";size_half=big", ""));
-        assertMatches("market_eq_quarterly_big", SegmentRebuild.bySizeHalf(whole, panel, null).get(1).spread());
+        assertMatches("market_eq_quarterly_big", SegmentRebuild.bySizeHalf(whole, panel, null, ConstructionFixtures.FORMING).get(1).spread());
     }
 
     @Test
@@ -51,7 +51,8 @@ class SegmentRebuildTest {
         FactorDefinition withoutSegment = DefinitionSpec.parse("fixture", spec.replace(";segment=sector:B", ""));
         List<String> sectors = SegmentRebuild.distinctLabels(panel, "sector");
         assertEquals(sectorsInTheCsv(), sectors);
-        List<SegmentRebuild.Segment> segments = SegmentRebuild.byLabel(withoutSegment, panel, null, "sector", sectors);
+        List<SegmentRebuild.Segment> segments = SegmentRebuild.byLabel(withoutSegment, panel, null, "sector", sectors,
+                ConstructionFixtures.FORMING);
         SegmentRebuild.Segment b = segments.get(sectors.indexOf("B"));
         assertEquals("B", b.value());
         assertMatches("sort_bm_big_half_segment_cost", b.spread());

@@ -128,7 +128,8 @@ class SignalRecipeFixtureTest {
                 assertArrayEquals(full.endState().toBytes(), rest.endState().toBytes(), "end state, split at " + k);
             }
             for (int spacing : new int[] {1, 7, 30}) {
-                CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, null, factors, null, 0, 0, spacing);
+                CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, null, factors, null, 0, 0, spacing,
+                        ConstructionFixtures.FORMING);
                 ConstructionFixtureTest.assertBitwiseEqual(full.observations(), run.build().observations(),
                         e.getKey() + " checkpointed every " + spacing);
             }

@@ -140,7 +140,7 @@ class LoadingsRefreshTest {
     }
 
     private void assertStoredEqualsOnTheFly(int dateCount) {
-        StorePanelSource source = new StorePanelSource(store.panels, panelId);
+        StorePanelSource source = store.panels.source(panelId);
         assertEquals(dateCount, source.dates().size());
         List<ReturnSeries> series = SPEC.factors().stream().map(store::series).toList();
         String fingerprint = fingerprint();

@@ -12,6 +12,7 @@ import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.DefinitionJson;
 import dev.winnow.construct.FactorDefinition;
 import dev.winnow.construct.FactorEngine;
+import dev.winnow.construct.FormingThreads;
 import dev.winnow.construct.FactorObservation;
 import dev.winnow.stats.ReturnSeries;
 import dev.winnow.store.Database;
@@ -25,6 +26,7 @@ import dev.winnow.store.JobStore;
 import dev.winnow.store.JsonText;
 import dev.winnow.store.LoadingsTestStore;
 import dev.winnow.store.PanelStore;
+import dev.winnow.store.TestDatabase;
 import dev.winnow.store.SecurityDictionary;
 import java.time.LocalDate;
 import java.time.temporal.ChronoUnit;
@@ -224,7 +226,7 @@ class RevisionCheckpointConsistencyTest {
         assertEquals(want.periodsWithoutReturn(), report.get("periods_without_return"), name + " periods without return");
 
         List<CheckpointedBuild.Checkpoint> wantCheckpoints = CheckpointedBuild.run(def, ConstructionFixtures.inMemory(panel),
-                rfFor(def, rf), null, 0, 0, spacing).checkpoints();
+                rfFor(def, rf), null, 0, 0, spacing, FormingThreads.NONE).checkpoints();
         List<StoredCheckpoint> checkpoints = s.factors.checkpoints(v.factorId(), v.version());
         assertEquals(panel.size() / spacing, checkpoints.size(), name + " checkpoints");
         assertEquals(wantCheckpoints.size(), checkpoints.size(), name + " checkpoints");
@@ -423,14 +425,14 @@ class RevisionCheckpointConsistencyTest {
     /** An in-memory store with one panel, the fixture definitions on it and builds with the given checkpoint spacing. */
     private static final class Store implements AutoCloseable {
         final Database database = Database.open("jdbc:h2:mem:revision-checkpoints-" + STORES.incrementAndGet());
-        final PanelStore panels = new PanelStore(database.jdbi());
+        final PanelStore panels = TestDatabase.panels(database.jdbi());
         final FactorStore factors = new FactorStore(database.jdbi());
         final JobStore jobs = new JobStore(database.jdbi());
         final FactorBuilds builds;
         final long panelId = panels.createPanelIfAbsent("fixture");
 
         Store(int spacing) {
-            builds = new FactorBuilds(panels, factors, spacing);
+            builds = new FactorBuilds(panels, factors, ConstructionFixtures.FORMING, spacing);
         }
 
         void defineRiskFree(ReturnSeries rf) {

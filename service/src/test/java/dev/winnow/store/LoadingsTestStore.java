@@ -37,7 +37,7 @@ public final class LoadingsTestStore implements AutoCloseable {
         }
         store = TestDatabase.fresh(dir, "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
         database = Database.open(store.url());
-        panels = new PanelStore(database.jdbi());
+        panels = TestDatabase.panels(database.jdbi());
         factors = new FactorStore(database.jdbi());
         loadings = new LoadingsStore(database.jdbi());
         jobs = new JobStore(database.jdbi());

@@ -44,7 +44,7 @@ class PortfolioStorageTest {
     void buildsAppendsAndRevisionsReadBackWhatWasSavedWithRowsOfTheOldLayout(@TempDir Path dir) {
         try (TestDatabase store = TestDatabase.fresh(dir, "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
              Database db = Database.open(store.url())) {
-            PanelStore panels = new PanelStore(db.jdbi());
+            PanelStore panels = TestDatabase.panels(db.jdbi());
             FactorStore factors = new FactorStore(db.jdbi());
             long panelId = panels.createPanelIfAbsent("p");
             FactorVersionRecord v = factors.define("f", DEFINITION, FactorDefinition.Method.SORT, panelId).version();

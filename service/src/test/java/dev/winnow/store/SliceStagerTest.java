@@ -35,7 +35,7 @@ class SliceStagerTest {
     void open() {
         store = TestDatabase.fresh(dir, "jdbc:h2:file:" + dir.resolve("store").toAbsolutePath());
         database = Database.open(store.url(), 2, null);
-        panels = new PanelStore(database.jdbi());
+        panels = TestDatabase.panels(database.jdbi());
         long jobId = new JobStore(database.jdbi()).enqueue(JobKind.PANEL_UPLOAD, "{}");
         panelId = panels.createPanelIfAbsent("stager");
         uploadId = panels.beginUpload(panelId, jobId, "append");

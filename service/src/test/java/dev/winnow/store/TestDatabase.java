@@ -16,6 +16,12 @@ public final class TestDatabase implements AutoCloseable {
     /** The variable naming the PostgreSQL database the suite runs against; unset or blank runs it on H2. */
     public static final String VARIABLE = "WINNOW_TEST_DB_URL";
 
+    /**
+     * The read-ahead threads of the panel stores that tests make themselves (a service wires its own): one pool for
+     * the test run, as one service has one; its daemon threads end a minute after the last read.
+     */
+    private static final PanelReadAhead READ_AHEAD = PanelReadAhead.perProcessor();
+
     private final String url;
     private final String schema;
 
@@ -28,6 +34,11 @@ public final class TestDatabase implements AutoCloseable {
     public static String postgresUrl() {
         String url = System.getenv(VARIABLE);
         return url == null || url.isBlank() ? null : url.trim();
+    }
+
+    /** A panel store over {@code jdbi} reading ahead on the tests' shared threads. */
+    public static PanelStore panels(org.jdbi.v3.core.Jdbi jdbi) {
+        return new PanelStore(jdbi, READ_AHEAD);
     }
 
     public static boolean onPostgres() {
