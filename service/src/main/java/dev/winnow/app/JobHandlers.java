@@ -16,7 +16,6 @@ import dev.winnow.store.JobKind;
 import dev.winnow.store.PanelStore;
 
 import java.util.EnumMap;
-import java.util.List;
 import java.util.Map;
 
 /** The job handlers by kind. */
@@ -32,7 +31,7 @@ final class JobHandlers {
         handlers.put(JobKind.FACTOR_BUILD, new FactorBuildJob(factors, builds));
         handlers.put(JobKind.FAMILY_BUILD, new FamilyBuildJob(factors, builds));
         handlers.put(JobKind.PANEL_UPLOAD, new PanelUploadJob(panels, factors, builds, spool,
-                List.of((panelId, dates, revision) -> Map.of("loadings", loadingsRefresh.afterUpload(panelId, dates, revision)))));
+                loadingsRefresh::afterUpload));
         handlers.put(JobKind.LOADINGS_HISTORY, new LoadingsJobs(loadingsRefresh).handler());
         handlers.put(JobKind.SERIES_UPLOAD, new SeriesUploadJob(factors, builds, spool));
         for (JobKind kind : JobKind.values()) {

@@ -2,6 +2,7 @@ package dev.winnow.jobs;
 
 import dev.winnow.store.VersionStatus;
 import dev.winnow.construct.FactorDefinition;
+import dev.winnow.research.BuildReport;
 import dev.winnow.research.FactorBuilds;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
@@ -9,7 +10,6 @@ import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
 import dev.winnow.store.JsonText;
 
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -33,24 +33,20 @@ public final class FactorBuildJob implements JobHandler {
         int version = params.version();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
-            return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
+            return JobOutcome.failure(Counters.ZERO, "factor " + name + " v" + version + " no longer exists");
         }
         try {
-            Map<String, Object> report = new LinkedHashMap<>();
-            report.put("factor", name);
-            report.put("version", version);
-            report.putAll(builds.rebuild(v));
-            report.put("dependents", rebuildDependents(name));
-            return JobOutcome.success(new Counters(1, 0, 0, 0), report);
+            BuildReport built = builds.rebuild(v);
+            return JobOutcome.success(new Counters(1, 0, 0, 0), new JobReports.FactorBuild(name, version, built, rebuildDependents(name)));
         } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
             String message = "factor " + name + " v" + version + " could not be built: " + e.getMessage();
             factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", message)));
-            return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, message)));
+            return JobOutcome.failure(Counters.ZERO, message);
         }
     }
 
-    private List<Map<String, Object>> rebuildDependents(String name) {
-        List<Map<String, Object>> rebuilt = new java.util.ArrayList<>();
+    private List<JobReports.FactorUpdate> rebuildDependents(String name) {
+        List<JobReports.FactorUpdate> rebuilt = new java.util.ArrayList<>();
         List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.listCurrent(false));
         java.util.Set<String> changed = new java.util.HashSet<>(List.of(name));
         for (FactorVersionRecord dependent : live) {
@@ -61,18 +57,12 @@ public final class FactorBuildJob implements JobHandler {
             if (changed.stream().noneMatch(c -> FactorBuilds.dependsOn(def, c))) {
                 continue;
             }
-            Map<String, Object> entry = new LinkedHashMap<>();
-            entry.put("factor", dependent.name());
-            entry.put("version", dependent.version());
             try {
-                entry.putAll(builds.rebuild(dependent));
-                entry.put("action", "rebuilt");
+                rebuilt.add(JobReports.FactorUpdate.done(dependent, JobReports.Action.REBUILT, builds.rebuild(dependent)));
                 changed.add(dependent.name());
             } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
-                entry.put("action", "failed");
-                entry.put("error", e.getMessage());
+                rebuilt.add(JobReports.FactorUpdate.failed(dependent, e.getMessage()));
             }
-            rebuilt.add(entry);
         }
         return rebuilt;
     }

@@ -8,7 +8,6 @@ import dev.winnow.store.JobStore.JobRecord;
 import dev.winnow.store.JsonText;
 
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
 import java.util.Map;
 
@@ -32,36 +31,28 @@ public final class FamilyBuildJob implements JobHandler {
         JobParams.FamilyBuild params = JobParams.of(job, JobParams.FamilyBuild.class);
         String family = params.family();
         List<FactorVersionRecord> versions = new ArrayList<>();
-        List<Map<String, Object>> errors = new ArrayList<>();
+        List<JobOutcome.JobError> errors = new ArrayList<>();
         for (JobParams.FamilyBuild.Member w : params.versions()) {
             String name = w.factor();
             int version = w.version();
             factors.version(name, version).ifPresentOrElse(versions::add,
-                    () -> errors.add(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
+                    () -> errors.add(new JobOutcome.JobError(null, null, "factor " + name + " v" + version + " no longer exists")));
         }
-        List<Map<String, Object>> built = new ArrayList<>();
+        List<JobReports.FactorUpdate> built = new ArrayList<>();
         for (FactorBuilds.TogetherOutcome o : builds.rebuildTogether(versions, progress::report)) {
             FactorVersionRecord v = o.version();
-            Map<String, Object> entry = new LinkedHashMap<>();
-            entry.put("factor", v.name());
-            entry.put("version", v.version());
             if (o.error() != null) {
                 String message = "factor " + v.name() + " v" + v.version() + " could not be built: " + o.error();
                 factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", message)));
-                errors.add(JobOutcome.error(null, null, message));
-                entry.put("action", "failed");
+                errors.add(new JobOutcome.JobError(null, null, message));
+                built.add(JobReports.FactorUpdate.failed(v, o.error()));
             } else {
-                entry.putAll(o.report());
-                entry.put("action", "built");
+                built.add(JobReports.FactorUpdate.done(v, JobReports.Action.BUILT, o.report()));
             }
-            built.add(entry);
         }
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("family", family);
-        report.put("variants", built);
-        if (!errors.isEmpty() && built.stream().noneMatch(e -> "built".equals(e.get("action")))) {
+        if (!errors.isEmpty() && built.stream().noneMatch(e -> e.action() == JobReports.Action.BUILT)) {
             return JobOutcome.failure(Counters.ZERO, errors);
         }
-        return JobOutcome.success(new Counters(1, 0, 0, 0), report);
+        return JobOutcome.success(new Counters(1, 0, 0, 0), new JobReports.FamilyBuild(family, built));
     }
 }

@@ -3,27 +3,35 @@ package dev.winnow.jobs;
 import dev.winnow.store.JobStore.Counters;
 
 import java.util.List;
-import java.util.Map;
+import java.util.Objects;
 
 /**
- * What a finished job reports: success, its row counters, line-numbered errors ({@code line}, {@code column},
- * {@code message}) and a free-form report (for example the factors it rebuilt).
+ * What a finished job reports: success, its row counters, and either its report (success) or its errors, each with
+ * the line and column it was found at where it has one (an upload's first errors in file order).
  */
-public record JobOutcome(boolean succeeded, Counters counters, List<Map<String, Object>> errors, Map<String, Object> report) {
+public record JobOutcome(boolean succeeded, Counters counters, List<JobError> errors, JobReport report) {
 
-    public static JobOutcome success(Counters counters, Map<String, Object> report) {
-        return new JobOutcome(true, counters, List.of(), report);
+    /** A reason a job failed; {@code line} and {@code column} null when it is not about one place of an upload. */
+    public record JobError(Long line, String column, String message) {
+        public JobError {
+            Objects.requireNonNull(message, "message");
+        }
     }
 
-    public static JobOutcome failure(Counters counters, List<Map<String, Object>> errors) {
-        return new JobOutcome(false, counters, errors, Map.of());
+    public JobOutcome {
+        errors = List.copyOf(errors);
     }
 
-    public static Map<String, Object> error(Long line, String column, String message) {
-        Map<String, Object> e = new java.util.LinkedHashMap<>();
-        e.put("line", line);
-        e.put("column", column);
-        e.put("message", message);
-        return e;
+    public static JobOutcome success(Counters counters, JobReport report) {
+        return new JobOutcome(true, counters, List.of(), Objects.requireNonNull(report, "report"));
+    }
+
+    public static JobOutcome failure(Counters counters, List<JobError> errors) {
+        return new JobOutcome(false, counters, errors, null);
+    }
+
+    /** A failure with one error that is not about a place in an upload. */
+    public static JobOutcome failure(Counters counters, String message) {
+        return failure(counters, List.of(new JobError(null, null, message)));
     }
 }

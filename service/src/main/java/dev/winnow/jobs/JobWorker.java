@@ -214,7 +214,7 @@ public final class JobWorker implements AutoCloseable {
                 return; // shutting down: the job stays 'running' until it is queued again (H2) or its lease expires
             }
             LOG.error("job {} ({}) failed", job.id(), job.kind(), e);
-            outcome = JobOutcome.failure(progress.latest(), List.of(JobOutcome.error(null, null, describe(job, e))));
+            outcome = JobOutcome.failure(progress.latest(), describe(job, e));
         }
         if (!record(job, outcome)) {
             LOG.warn("job {} ({}) was claimed by another worker meanwhile; its end and clean-up are theirs", job.id(), job.kind());
@@ -240,7 +240,7 @@ public final class JobWorker implements AutoCloseable {
             try {
                 boolean recorded = jobs.finish(job.id(), settings.owner(), outcome.succeeded(), outcome.counters(),
                         outcome.errors().isEmpty() ? null : JsonText.write(outcome.errors()),
-                        outcome.report().isEmpty() ? null : JsonText.write(outcome.report()));
+                        outcome.report() == null ? null : JsonText.write(outcome.report()));
                 if (myState() == State.WAITING_FOR_STORE) {
                     LOG.info("recorded the end of job {} once the store answered again", job.id());
                     state(State.RUNNING);

@@ -1,9 +1,9 @@
 package dev.winnow.jobs;
 
+import dev.winnow.research.LoadingsHistory;
 import dev.winnow.research.LoadingsRefresh;
 import dev.winnow.store.JobStore.Counters;
 
-import java.util.Map;
 import java.util.function.DoubleConsumer;
 
 /** The background job that computes and stores a panel's loadings for its whole history. */
@@ -21,7 +21,7 @@ public final class LoadingsJobs {
      * @return a report: dates computed, factors, window, min_obs and the date range
      * @throws IllegalStateException when the panel has no config or a configured factor is not ready
      */
-    public Map<String, Object> computeHistory(long panelId, DoubleConsumer progress) {
+    public LoadingsHistory computeHistory(long panelId, DoubleConsumer progress) {
         return refresh.computeHistory(panelId, progress);
     }
 
@@ -29,9 +29,9 @@ public final class LoadingsJobs {
     public JobHandler handler() {
         return (job, progress) -> {
             long panelId = JobParams.of(job, JobParams.LoadingsHistory.class).panelId();
-            Map<String, Object> report = computeHistory(panelId, progress::report);
-            long dates = ((Number) report.get("computed_dates")).longValue();
-            return JobOutcome.success(new Counters(1.0, dates, dates, 0), report);
+            LoadingsHistory history = computeHistory(panelId, progress::report);
+            long dates = history.computedDates();
+            return JobOutcome.success(new Counters(1.0, dates, dates, 0), new JobReports.LoadingsHistoryComputed(history));
         };
     }
 }

@@ -10,6 +10,7 @@ import dev.winnow.ingest.UploadMode;
 import dev.winnow.ingest.UploadSpool;
 import dev.winnow.ingest.CrossSectionSink;
 import dev.winnow.research.FactorBuilds;
+import dev.winnow.research.LoadingsUpdate;
 import dev.winnow.store.FactorStore;
 import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.JobStore.Counters;
@@ -39,21 +40,21 @@ public final class PanelUploadJob implements JobHandler {
     private final FactorBuilds builds;
     private final UploadSpool spool;
     private final PanelUploadParser parser = new PanelUploadParser();
-    private final List<PanelChangeListener> listeners;
+    private final PanelChangeListener loadings;
 
-    /** Told about dates a committed upload added or replaced, after the factors are up to date. */
+    /** Told about dates a committed upload added or replaced, after the factors are up to date: the stored loadings. */
     @FunctionalInterface
     public interface PanelChangeListener {
-        Map<String, Object> afterUpload(long panelId, List<LocalDate> changedDates, boolean revision) throws Exception;
+        LoadingsUpdate afterUpload(long panelId, List<LocalDate> changedDates, boolean revision) throws Exception;
     }
 
     public PanelUploadJob(PanelStore panels, FactorStore factors, FactorBuilds builds, UploadSpool spool,
-                          List<PanelChangeListener> listeners) {
+                          PanelChangeListener loadings) {
         this.panels = panels;
         this.factors = factors;
         this.builds = builds;
         this.spool = spool;
-        this.listeners = List.copyOf(listeners);
+        this.loadings = java.util.Objects.requireNonNull(loadings, "loadings");
     }
 
     @Override
@@ -64,7 +65,11 @@ public final class PanelUploadJob implements JobHandler {
         String file = params.file();
         long panelId = panels.createPanelIfAbsent(panelName);
 
-        Map<String, Object> timings = new LinkedHashMap<>();
+        Long parseMillis = null;
+        Long stagingMillis = null;
+        Long encodeMillis = null;
+        Long writeMillis = null;
+        Long commitMillis = null;
         Optional<List<LocalDate>> already = panels.committedUploadDates(job.id());
         panels.discardStagingOfJob(job.id());
         Counters counters;
@@ -95,10 +100,10 @@ public final class PanelUploadJob implements JobHandler {
                     long parsed = System.nanoTime();
                     ids.flush();
                     SliceStager.Stats staged = stager.finish();
-                    timings.put("parse", millis(parsed - parseStart));
-                    timings.put("staging_after_parse", millis(System.nanoTime() - parsed));
-                    timings.put("encode", millis(staged.encodeNanos()));
-                    timings.put("stage_writes", millis(staged.writeNanos()));
+                    parseMillis = millis(parsed - parseStart);
+                    stagingMillis = millis(System.nanoTime() - parsed);
+                    encodeMillis = millis(staged.encodeNanos());
+                    writeMillis = millis(staged.writeNanos());
                 }
             } catch (Exception | Error e) {
                 panels.discardUpload(uploadId);
@@ -117,24 +122,19 @@ public final class PanelUploadJob implements JobHandler {
             }
             long commitStart = System.nanoTime();
             panels.commitUpload(panelId, uploadId, newColumns);
-            timings.put("commit", millis(System.nanoTime() - commitStart));
+            commitMillis = millis(System.nanoTime() - commitStart);
             dates = result.dates();
         }
         progress.report(counters);
 
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("panel", panelName);
-        report.put("mode", revise ? "revise" : "append");
-        report.put("dates", dates.size());
-        report.put("first_date", dates.isEmpty() ? null : dates.get(0));
-        report.put("last_date", dates.isEmpty() ? null : dates.get(dates.size() - 1));
         long factorsStart = System.nanoTime();
-        report.put("factors", updateFactors(panelId, revise ? earliest(dates) : null, revise));
-        timings.put("factors", millis(System.nanoTime() - factorsStart));
-        for (PanelChangeListener listener : listeners) {
-            report.putAll(listener.afterUpload(panelId, dates, revise));
-        }
-        report.put("timings_ms", timings);
+        List<JobReports.FactorUpdate> updated = updateFactors(panelId, revise ? earliest(dates) : null, revise);
+        long factorsMillis = millis(System.nanoTime() - factorsStart);
+        LoadingsUpdate loadingsUpdate = loadings.afterUpload(panelId, dates, revise);
+        JobReports.PanelUpload report = new JobReports.PanelUpload(panelName, revise ? UploadMode.REVISE : UploadMode.APPEND,
+                dates.size(), dates.isEmpty() ? null : dates.get(0), dates.isEmpty() ? null : dates.get(dates.size() - 1),
+                updated, loadingsUpdate,
+                new JobReports.UploadTimings(parseMillis, stagingMillis, encodeMillis, writeMillis, commitMillis, factorsMillis));
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
@@ -175,7 +175,7 @@ public final class PanelUploadJob implements JobHandler {
         return dates.stream().min(LocalDate::compareTo).orElse(null);
     }
 
-    private List<Map<String, Object>> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
+    private List<JobReports.FactorUpdate> updateFactors(long panelId, LocalDate earliestRevised, boolean revise) {
         List<FactorVersionRecord> live = FactorBuilds.dependenciesFirst(factors.liveOnPanel(panelId));
         List<FactorBuilds.TogetherOutcome> outcomes = new ArrayList<>();
         if (revise) {
@@ -190,33 +190,27 @@ public final class PanelUploadJob implements JobHandler {
                 }
             }
         }
-        List<Map<String, Object>> updated = new ArrayList<>();
+        List<JobReports.FactorUpdate> updated = new ArrayList<>();
         for (FactorBuilds.TogetherOutcome o : outcomes) {
             FactorVersionRecord v = o.version();
-            Map<String, Object> entry = new LinkedHashMap<>();
-            entry.put("factor", v.name());
-            entry.put("version", v.version());
-            entry.put("action", revise ? "rebuilt" : "extended");
             if (o.error() == null) {
-                entry.putAll(o.report());
+                updated.add(JobReports.FactorUpdate.done(v, revise ? JobReports.Action.REBUILT : JobReports.Action.EXTENDED, o.report()));
             } else {
                 factors.markFailed(v.factorId(), v.version(), JsonText.write(Map.of("error", o.error())));
-                entry.put("action", "failed");
-                entry.put("error", o.error());
+                updated.add(JobReports.FactorUpdate.failed(v, o.error()));
             }
-            updated.add(entry);
         }
         return updated;
     }
 
     /** Upload errors as job errors, with a closing line when more were found than listed. */
-    static List<Map<String, Object>> errors(List<UploadError> listed, long total) {
-        List<Map<String, Object>> out = new ArrayList<>();
+    static List<JobOutcome.JobError> errors(List<UploadError> listed, long total) {
+        List<JobOutcome.JobError> out = new ArrayList<>();
         for (UploadError e : listed) {
-            out.add(JobOutcome.error(e.line(), e.column(), e.message()));
+            out.add(new JobOutcome.JobError(e.line(), e.column(), e.message()));
         }
         if (total > listed.size()) {
-            out.add(JobOutcome.error(null, null, (total - listed.size())
+            out.add(new JobOutcome.JobError(null, null, (total - listed.size())
                     + " more error(s) not listed; fix the ones above and upload again"));
         }
         return out;

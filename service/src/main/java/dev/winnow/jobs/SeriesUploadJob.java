@@ -13,13 +13,10 @@ import dev.winnow.store.FactorStore.FactorVersionRecord;
 import dev.winnow.store.FactorStore.StoredReturn;
 import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
-import dev.winnow.store.JsonText;
 
 import java.time.LocalDate;
 import java.util.ArrayList;
-import java.util.LinkedHashMap;
 import java.util.List;
-import java.util.Map;
 
 /**
  * Job kind {@code series_upload}: an external series (bond, term, credit, macro, risk-free) uploaded as
@@ -49,7 +46,7 @@ public final class SeriesUploadJob implements JobHandler {
         String file = params.file();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
-            return JobOutcome.failure(Counters.ZERO, List.of(JobOutcome.error(null, null, "factor " + name + " v" + version + " no longer exists")));
+            return JobOutcome.failure(Counters.ZERO, "factor " + name + " v" + version + " no longer exists");
         }
         ReturnSeries stored = factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD);
         LocalDate lastDate = revise || stored.size() == 0 ? null : stored.date(stored.size() - 1);
@@ -71,12 +68,8 @@ public final class SeriesUploadJob implements JobHandler {
         factors.saveExternal(v.factorId(), v.version(), rows, revise);
         progress.report(counters);
 
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("factor", name);
-        report.put("version", version);
-        report.put("mode", revise ? "revise" : "append");
-        report.put("dates", rows.size());
-        report.put("factors", rebuildDependents(name, series.size() == 0 ? null : series.date(0)));
+        JobReports.SeriesUpload report = new JobReports.SeriesUpload(name, version, revise ? UploadMode.REVISE : UploadMode.APPEND,
+                rows.size(), rebuildDependents(name, series.size() == 0 ? null : series.date(0)));
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);
     }
@@ -87,8 +80,8 @@ public final class SeriesUploadJob implements JobHandler {
         spool.delete(JobParams.of(job, JobParams.SeriesUpload.class).file());
     }
 
-    private List<Map<String, Object>> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
-        List<Map<String, Object>> rebuilt = new ArrayList<>();
+    private List<JobReports.FactorUpdate> rebuildDependents(String riskFreeName, LocalDate earliestChanged) {
+        List<JobReports.FactorUpdate> rebuilt = new ArrayList<>();
         for (FactorVersionRecord dependent : factors.listCurrent(false)) {
             if (dependent.method() == FactorDefinition.Method.EXTERNAL || dependent.status() != VersionStatus.READY) {
                 continue;
@@ -97,17 +90,11 @@ public final class SeriesUploadJob implements JobHandler {
             if (!FactorBuilds.dependsOn(def, riskFreeName)) {
                 continue;
             }
-            Map<String, Object> entry = new LinkedHashMap<>();
-            entry.put("factor", dependent.name());
-            entry.put("version", dependent.version());
             try {
-                entry.putAll(builds.rebuildFrom(dependent, earliestChanged));
-                entry.put("action", "rebuilt");
+                rebuilt.add(JobReports.FactorUpdate.done(dependent, JobReports.Action.REBUILT, builds.rebuildFrom(dependent, earliestChanged)));
             } catch (FactorBuilds.FactorBuildException | IllegalArgumentException e) {
-                entry.put("action", "failed");
-                entry.put("error", e.getMessage());
+                rebuilt.add(JobReports.FactorUpdate.failed(dependent, e.getMessage()));
             }
-            rebuilt.add(entry);
         }
         return rebuilt;
     }

@@ -4,9 +4,6 @@ import dev.winnow.store.Database;
 import dev.winnow.store.JobStore.Counters;
 import dev.winnow.store.JobStore.JobRecord;
 
-import java.util.LinkedHashMap;
-import java.util.Map;
-
 /** Job kind {@code compact_store}: gives back the space the H2 store no longer uses (see {@link Database#compact()}). */
 public final class StoreCompactionJob implements JobHandler {
     private final Database database;
@@ -18,10 +15,7 @@ public final class StoreCompactionJob implements JobHandler {
     @Override
     public JobOutcome run(JobRecord job, ProgressReporter progress) throws Exception {
         Database.Compaction done = database.compact();
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("store_bytes_before", done.bytesBefore());
-        report.put("store_bytes_after", done.bytesAfter());
-        report.put("note", done.note());
-        return JobOutcome.success(new Counters(1, 0, 0, 0), report);
+        return JobOutcome.success(new Counters(1, 0, 0, 0),
+                new JobReports.StoreCompaction(done.bytesBefore(), done.bytesAfter(), done.note()));
     }
 }

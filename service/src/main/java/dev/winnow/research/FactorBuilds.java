@@ -73,16 +73,16 @@ public final class FactorBuilds {
     }
 
     /** Rebuilds the whole series of a version, replacing what was stored. Returns the build report. */
-    public Map<String, Object> rebuild(FactorVersionRecord v) throws FactorBuildException {
+    public BuildReport rebuild(FactorVersionRecord v) throws FactorBuildException {
         FactorDefinition def = definition(v);
         CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), null, 0, 0, checkpointDates, forming);
-        Map<String, Object> report = report(run.build(), 0, 0);
+        BuildReport report = report(run.build(), 0, 0);
         save(v, run, report, Replaced.EVERYTHING);
         return report;
     }
 
-    /** What {@link #rebuildTogether} did with one version: its build report, or why it failed. */
-    public record TogetherOutcome(FactorVersionRecord version, Map<String, Object> report, String error) {
+    /** What {@link #rebuildTogether} did with one version: its build report, or why it failed (report null). */
+    public record TogetherOutcome(FactorVersionRecord version, BuildReport report, String error) {
     }
 
     /**
@@ -130,7 +130,7 @@ public final class FactorBuilds {
             done[0] += sources.get(panelId).dates().size();
             List<FactorVersionRecord> list = byPanel.get(panelId);
             for (int i = 0; i < list.size(); i++) {
-                Map<String, Object> report = report(results.get(i).build(), 0, 0);
+                BuildReport report = report(results.get(i).build(), 0, 0);
                 save(list.get(i), results.get(i), report, Replaced.EVERYTHING);
                 out.add(new TogetherOutcome(list.get(i), report, null));
             }
@@ -139,7 +139,7 @@ public final class FactorBuilds {
     }
 
     /** Extends a version over dates appended to its panel, from its stored engine state. */
-    public Map<String, Object> extend(FactorVersionRecord v) throws FactorBuildException {
+    public BuildReport extend(FactorVersionRecord v) throws FactorBuildException {
         byte[] stateBytes = factors.engineState(v.factorId(), v.version());
         if (stateBytes == null) {
             return rebuild(v);
@@ -151,7 +151,7 @@ public final class FactorBuilds {
         int previousObservations = ((Number) previous.getOrDefault("observations", 0)).intValue();
         CheckpointedBuild.Result run = CheckpointedBuild.run(def, panelSource(v, def), riskFree(def), signalFactors(def), state,
                 previousObservations, previousMissing, checkpointDates, forming);
-        Map<String, Object> report = report(run.build(), previousObservations, previousMissing);
+        BuildReport report = report(run.build(), previousObservations, previousMissing);
         save(v, run, report, Replaced.NOTHING);
         return report;
     }
@@ -163,7 +163,7 @@ public final class FactorBuilds {
      * one transaction. Without such a checkpoint, rebuilds from scratch. The report adds {@code rebuilt_from} (the
      * checkpoint's date, null for a full rebuild) and {@code recomputed_dates}.
      */
-    public Map<String, Object> rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
+    public BuildReport rebuildFrom(FactorVersionRecord v, LocalDate earliestChanged) throws FactorBuildException {
         FactorDefinition def = definition(v);
         StorePanelSource panel = panelSource(v, def);
         StoredCheckpoint checkpoint = earliestChanged == null ? null
@@ -171,16 +171,12 @@ public final class FactorBuilds {
                         .filter(c -> resumable(c, def, panel.dates()))
                         .orElse(null);
         if (checkpoint == null) {
-            Map<String, Object> report = new LinkedHashMap<>(rebuild(v));
-            report.put("rebuilt_from", null);
-            report.put("recomputed_dates", panel.dates().size());
-            return report;
+            return rebuild(v).restartedAt(null, panel.dates().size());
         }
         CheckpointedBuild.Result run = CheckpointedBuild.run(def, panel, riskFree(def), signalFactors(def), EngineState.fromBytes(checkpoint.state()),
                 checkpoint.observations(), checkpoint.periodsWithoutReturn(), checkpointDates, forming);
-        Map<String, Object> report = report(run.build(), checkpoint.observations(), checkpoint.periodsWithoutReturn());
-        report.put("rebuilt_from", checkpoint.lastDate().toString());
-        report.put("recomputed_dates", panel.dates().size() - checkpoint.processedDates());
+        BuildReport report = report(run.build(), checkpoint.observations(), checkpoint.periodsWithoutReturn())
+                .restartedAt(checkpoint.lastDate(), panel.dates().size() - checkpoint.processedDates());
         save(v, run, report, Replaced.after(checkpoint));
         return report;
     }
@@ -217,10 +213,7 @@ public final class FactorBuilds {
         if (together.size() > 1) {
             for (TogetherOutcome o : rebuildTogether(together, null)) {
                 if (o.report() != null) {
-                    Map<String, Object> report = new LinkedHashMap<>(o.report());
-                    report.put("rebuilt_from", null);
-                    report.put("recomputed_dates", dateCounts.get(o.version()));
-                    o = new TogetherOutcome(o.version(), report, null);
+                    o = new TogetherOutcome(o.version(), o.report().restartedAt(null, dateCounts.get(o.version())), null);
                 }
                 done.put(o.version(), o);
             }
@@ -280,7 +273,7 @@ public final class FactorBuilds {
         }
     }
 
-    private void save(FactorVersionRecord v, CheckpointedBuild.Result run, Map<String, Object> report, Replaced replaced) {
+    private void save(FactorVersionRecord v, CheckpointedBuild.Result run, BuildReport report, Replaced replaced) {
         BuildResult result = run.build();
         List<StoredCheckpoint> checkpoints = new ArrayList<>(run.checkpoints().size());
         for (CheckpointedBuild.Checkpoint c : run.checkpoints()) {
@@ -307,13 +300,9 @@ public final class FactorBuilds {
     }
 
     /** The build report: counts over the whole series, the ones before this run given. */
-    private static Map<String, Object> report(BuildResult result, int observationsBefore, int missingBefore) {
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("observations", observationsBefore + result.observations().size());
-        report.put("periods_without_return", missingBefore + result.periodsWithoutReturn());
-        report.put("new_observations", result.observations().size());
-        report.put("new_formations", result.formations().size());
-        return report;
+    private static BuildReport report(BuildResult result, int observationsBefore, int missingBefore) {
+        return new BuildReport(observationsBefore + result.observations().size(), missingBefore + result.periodsWithoutReturn(),
+                result.observations().size(), result.formations().size(), null);
     }
 
     /** The version's panel, decoding only the columns the definition reads. */

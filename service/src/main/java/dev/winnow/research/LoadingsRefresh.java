@@ -56,16 +56,12 @@ public final class LoadingsRefresh {
      *
      * @param changedDates the dates the upload added or replaced
      * @param revision     whether the upload revised existing dates (reported; the rule is the same either way)
-     * @return a small report for the job: {@code loadings} is "refreshed", "skipped" or "failed"
+     * @return what the job reports: refreshed (with the counts), skipped or failed (with the reason)
      */
-    public Map<String, Object> afterUpload(long panelId, List<LocalDate> changedDates, boolean revision) {
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("revision", revision);
+    public LoadingsUpdate afterUpload(long panelId, List<LocalDate> changedDates, boolean revision) {
         Optional<LoadingsConfig> config = loadings.config(panelId);
         if (config.isEmpty()) {
-            report.put("loadings", "skipped");
-            report.put("reason", "the panel has no loadings config");
-            return report;
+            return LoadingsUpdate.notRefreshed(revision, LoadingsUpdate.Outcome.SKIPPED, "the panel has no loadings config");
         }
         try {
             Inputs in = resolve(panelId, config.get().spec());
@@ -74,22 +70,16 @@ public final class LoadingsRefresh {
             loadings.delete(panelId, plan.orphans());
             loadings.restamp(panelId, plan.restamp(), in.fingerprint());
             int computed = computeAndStore(panelId, in, plan.recompute(), p -> { });
-            report.put("loadings", "refreshed");
-            report.put("computed_dates", computed);
-            report.put("restamped_dates", plan.restamp().size());
-            if (!plan.recompute().isEmpty()) {
-                report.put("first_computed", in.factors().dates().get(plan.recompute().first()));
-                report.put("last_computed", in.factors().dates().get(plan.recompute().last()));
-            }
+            boolean any = !plan.recompute().isEmpty();
+            return LoadingsUpdate.refreshed(revision, computed, plan.restamp().size(),
+                    any ? in.factors().dates().get(plan.recompute().first()) : null,
+                    any ? in.factors().dates().get(plan.recompute().last()) : null);
         } catch (NoSuchElementException | IllegalStateException e) {
-            report.put("loadings", "skipped");
-            report.put("reason", e.getMessage());
+            return LoadingsUpdate.notRefreshed(revision, LoadingsUpdate.Outcome.SKIPPED, e.getMessage());
         } catch (RuntimeException e) {
             LOG.error("loadings refresh of panel {} failed", panelId, e);
-            report.put("loadings", "failed");
-            report.put("reason", String.valueOf(e.getMessage()));
+            return LoadingsUpdate.notRefreshed(revision, LoadingsUpdate.Outcome.FAILED, String.valueOf(e.getMessage()));
         }
-        return report;
     }
 
     /**
@@ -97,7 +87,7 @@ public final class LoadingsRefresh {
      *
      * @throws IllegalStateException when the panel has no config or a configured factor is not ready
      */
-    public Map<String, Object> computeHistory(long panelId, DoubleConsumer progress) {
+    public LoadingsHistory computeHistory(long panelId, DoubleConsumer progress) {
         LoadingsConfig config = loadings.config(panelId).orElseThrow(() ->
                 new IllegalStateException("panel " + panelId + " has no loadings config; PUT one first"));
         Inputs in;
@@ -119,17 +109,8 @@ public final class LoadingsRefresh {
         }
         loadings.delete(panelId, orphans);
         int computed = computeAndStore(panelId, in, all, progress);
-        Map<String, Object> report = new LinkedHashMap<>();
-        report.put("panel_id", panelId);
-        report.put("computed_dates", computed);
-        report.put("factors", config.spec().factors());
-        report.put("window", config.spec().window());
-        report.put("min_obs", config.spec().minObs());
-        if (dates > 0) {
-            report.put("first_date", in.panel().dates().get(0));
-            report.put("last_date", in.panel().dates().get(dates - 1));
-        }
-        return report;
+        return new LoadingsHistory(panelId, computed, config.spec().factors(), config.spec().window(), config.spec().minObs(),
+                dates > 0 ? in.panel().dates().get(0) : null, dates > 0 ? in.panel().dates().get(dates - 1) : null);
     }
 
     private Inputs resolve(long panelId, LoadingsSpec spec) {

@@ -107,8 +107,8 @@ public final class LoadingsBench {
             } finally {
                 server.stop();
             }
-            Map<String, Object> job = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
-            System.out.println("(history job check: " + job.get("computed_dates") + " dates stored)");
+            dev.winnow.research.LoadingsHistory job = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
+            System.out.println("(history job check: " + job.computedDates() + " dates stored)");
         }
     }
 

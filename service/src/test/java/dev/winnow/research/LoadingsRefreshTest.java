@@ -62,8 +62,8 @@ class LoadingsRefreshTest {
     void historyJobStoresExactlyWhatIsComputedOnTheFly() {
         store.loadings.saveConfig(panelId, SPEC);
         List<Double> progress = new ArrayList<>();
-        Map<String, Object> report = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, progress::add);
-        assertEquals(DATES, report.get("computed_dates"));
+        LoadingsHistory report = new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, progress::add);
+        assertEquals(DATES, report.computedDates());
         assertEquals(1.0, progress.get(progress.size() - 1));
         assertStoredEqualsOnTheFly(DATES);
     }
@@ -76,10 +76,10 @@ class LoadingsRefreshTest {
         for (int j = 0; j < 3; j++) {
             store.extendFactor(SPEC.factors().get(j), dates, f[j], DATES, null);
         }
-        Map<String, Object> report = refresh.afterUpload(panelId, List.of(dates.get(DATES)), false);
-        assertEquals("refreshed", report.get("loadings"), report.toString());
-        assertEquals(1, report.get("computed_dates"));
-        assertEquals(DATES, report.get("restamped_dates"));
+        LoadingsUpdate report = refresh.afterUpload(panelId, List.of(dates.get(DATES)), false);
+        assertEquals(LoadingsUpdate.Outcome.REFRESHED, report.loadings(), report.toString());
+        assertEquals(1, report.computedDates());
+        assertEquals(DATES, report.restampedDates());
         assertStoredEqualsOnTheFly(DATES + 1);
     }
 
@@ -96,10 +96,10 @@ class LoadingsRefreshTest {
         CrossSection changed = new CrossSection(old.date(), old.securityIds(), returns, old.marketCaps(), old.numbers(), old.labels());
         LoadingsTable before = storedAt(34);
         store.upload("harbor-equities", SECURITIES, List.of(changed), false);
-        Map<String, Object> report = refresh.afterUpload(panelId, List.of(old.date()), true);
-        assertEquals(SPEC.window(), report.get("computed_dates"), "dates 35..64 hold the revised date in their window");
-        assertEquals(dates.get(revised), report.get("first_computed"));
-        assertEquals(dates.get(revised + SPEC.window() - 1), report.get("last_computed"));
+        LoadingsUpdate report = refresh.afterUpload(panelId, List.of(old.date()), true);
+        assertEquals(SPEC.window(), report.computedDates(), "dates 35..64 hold the revised date in their window");
+        assertEquals(dates.get(revised), report.firstComputed());
+        assertEquals(dates.get(revised + SPEC.window() - 1), report.lastComputed());
         assertEquals(before, storedAt(34), "a date before the revision keeps its row");
         assertStoredEqualsOnTheFly(DATES);
     }
@@ -113,15 +113,15 @@ class LoadingsRefreshTest {
             revised[t] += 0.002;
         }
         store.extendFactor("value", dates, revised, 60, dates.get(60));
-        Map<String, Object> report = refresh.afterUpload(panelId, List.of(), false);
-        assertEquals(DATES - 60, report.get("computed_dates"));
-        assertEquals(60, report.get("restamped_dates"));
+        LoadingsUpdate report = refresh.afterUpload(panelId, List.of(), false);
+        assertEquals(DATES - 60, report.computedDates());
+        assertEquals(60, report.restampedDates());
         assertStoredEqualsOnTheFly(DATES);
     }
 
     @Test
     void withoutConfigTheHookSkipsAndAConfigChangeDropsStoredRows() {
-        assertEquals("skipped", refresh.afterUpload(panelId, List.of(dates.get(5)), false).get("loadings"));
+        assertEquals(LoadingsUpdate.Outcome.SKIPPED, refresh.afterUpload(panelId, List.of(dates.get(5)), false).loadings());
         store.loadings.saveConfig(panelId, SPEC);
         new LoadingsRefresh(store.panels, store.factors, store.loadings).computeHistory(panelId, p -> { });
         assertEquals(DATES, store.loadings.stamps(panelId).size());

@@ -138,10 +138,10 @@ class RevisionCheckpointConsistencyTest {
                     continue;
                 }
                 dependents++;
-                Map<String, Object> report = s.builds.rebuildFrom(s.current(e.getKey()), rf.date(40));
+                BuildReport report = s.builds.rebuildFrom(s.current(e.getKey()), rf.date(40));
                 int kept = keptDates(s.panels.dates(s.panelId), rf.date(40), FIXTURE_SPACING);
                 assertTrue(kept > 0, "the test needs a checkpoint before the revised date");
-                assertEquals(base.get(kept - 1).date().toString(), report.get("rebuilt_from"));
+                assertEquals(base.get(kept - 1).date(), report.revision().rebuiltFrom());
                 assertSameAsFullBuild(s, e.getKey(), e.getValue(), base, revisedRf, FIXTURE_SPACING);
             }
             assertEquals(2, dependents);
@@ -176,18 +176,18 @@ class RevisionCheckpointConsistencyTest {
             for (Map.Entry<String, FactorDefinition> e : DEFINITIONS.entrySet()) {
                 String where = revision.name() + " " + e.getKey();
                 FactorVersionRecord before = s.current(e.getKey());
-                Map<String, Object> report = s.builds.rebuildFrom(before, revision.earliest());
+                BuildReport report = s.builds.rebuildFrom(before, revision.earliest());
                 if (kept == 0) {
-                    assertNull(report.get("rebuilt_from"), where);
+                    assertNull(report.revision().rebuiltFrom(), where);
                 } else {
-                    assertEquals(grid.get(kept - 1).toString(), report.get("rebuilt_from"), where);
+                    assertEquals(grid.get(kept - 1), report.revision().rebuiltFrom(), where);
                 }
-                assertEquals(grid.size() - kept, report.get("recomputed_dates"), where);
+                assertEquals(grid.size() - kept, report.revision().recomputedDates(), where);
                 BuildResult want = FactorEngine.build(e.getValue(), ConstructionFixtures.inMemory(revision.revised()),
                         rfFor(e.getValue(), rf), null);
                 long tail = kept == 0 ? want.observations().size()
                         : want.observations().stream().filter(o -> o.date().isAfter(grid.get(kept - 1))).count();
-                assertEquals((int) tail, report.get("new_observations"), where + ": only the tail is recomputed");
+                assertEquals((int) tail, report.newObservations(), where + ": only the tail is recomputed");
                 assertSameAsFullBuild(s, e.getKey(), e.getValue(), revision.revised(), rf, spacing);
                 assertTrue(s.current(e.getKey()).dataVersion() > before.dataVersion(), where + ": data version bumps");
             }
