@@ -102,8 +102,11 @@ public final class JobReports {
     public record LoadingsHistoryComputed(@JsonUnwrapped LoadingsHistory history) implements JobReport {
     }
 
-    /** {@code compact_store}: the store's size before and after, and what the compaction did. */
+    /**
+     * {@code compact_store}: the store's size before and after (null on PostgreSQL, which reclaims space itself), and
+     * what the compaction did.
+     */
     @JsonNaming(PropertyNamingStrategies.SnakeCaseStrategy.class)
-    public record StoreCompaction(long storeBytesBefore, long storeBytesAfter, String note) implements JobReport {
+    public record StoreCompaction(Long storeBytesBefore, Long storeBytesAfter, String note) implements JobReport {
     }
 }
