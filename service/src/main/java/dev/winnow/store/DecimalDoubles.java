@@ -261,7 +261,15 @@ final class DecimalDoubles {
         return best - MAX_EXPONENT;
     }
 
-    /** Decodes the block at the reader's position into {@code out[0..n)}, leaving the reader after it. */
+    /**
+     * Decodes the block at the reader's position into {@code out[0..n)}, leaving the reader after it. A value at
+     * exponent e is d / 10^e for e &gt;= 0 and d x 10^-e for e &lt; 0, one correctly rounded operation either way. A
+     * block whose exponents are all e &gt;= 0 (the usual case) divides only; a block with both kinds computes
+     * d x m / q with (m, q) = (1, 10^e) or (10^-e, 1), the same single rounding (multiplying and dividing by one are
+     * exact), so the loop has no branch on the exponent's sign. Each word is one big-endian int load.
+     *
+     * @throws IllegalStateException when the block is cut short or its mode is unknown
+     */
     static void decode(ByteSource in, double[] out, int n) {
         byte mode = in.get();
         if (mode == RAW) {
@@ -277,21 +285,27 @@ final class DecimalDoubles {
         int exceptions = in.getInt();
         int wordsAt = in.position();
         int exceptionAt = wordsAt + 4 * n;
-        double[] divisors = new double[SLOTS];
-        boolean allDivide = base >= 0;
+        byte[] b = in.array();
+        if (exceptions < 0 || exceptionAt + 8L * exceptions > b.length) {
+            throw new IllegalStateException("encoded slice is truncated");
+        }
+        // indexed by the word's top four bits; the missing and exception slots are never read
+        double[] divisors = new double[16];
+        double[] multipliers = new double[16];
         for (int s = 0; s < SLOTS; s++) {
             int e = base + s;
-            divisors[s] = e >= 0 ? POW10[Math.min(e, MAX_EXPONENT)] : POW10[Math.min(-e, MAX_EXPONENT)];
+            divisors[s] = e >= 0 ? POW10[Math.min(e, MAX_EXPONENT)] : 1.0;
+            multipliers[s] = e >= 0 ? 1.0 : POW10[Math.min(-e, MAX_EXPONENT)];
         }
-        byte[] b = in.array();
+        boolean divideOnly = base >= 0;
         int at = wordsAt;
         for (int i = 0; i < n; i++, at += 4) {
-            int word = ((b[at] & 0xff) << 24) | ((b[at + 1] & 0xff) << 16) | ((b[at + 2] & 0xff) << 8) | (b[at + 3] & 0xff);
+            int word = (int) ByteSink.INT.get(b, at);
             int slot = word >>> 28;
             if (slot < SLOTS) {
                 int zz = word & 0x0FFFFFFF;
                 double d = (zz >>> 1) ^ -(zz & 1);
-                out[i] = allDivide || base + slot >= 0 ? d / divisors[slot] : d * divisors[slot];
+                out[i] = divideOnly ? d / divisors[slot] : d * multipliers[slot] / divisors[slot];
             } else if (slot == MISSING_SLOT) {
                 out[i] = Double.NaN;
             } else {

@@ -18,8 +18,10 @@ import java.util.Map;
 /**
  * The ingest job's CPU work without HTTP or the store: parses a panel CSV (the comparison's, kept in its
  * {@code --work} folder) with the one-pass parser and encodes every slice as the stager would, with the parser's
- * decimal forms or, with {@code --no-forms}, finding them by trial. Prints per run the wall time, the process's CPU
- * seconds (all threads: parse workers, reader, the hand-over and encoding on this thread) and the encoding's share.
+ * decimal forms or, with {@code --no-forms}, finding them by trial, then decodes each payload again as a build reads
+ * it (every column). Prints per run the wall time, the process's CPU seconds (all threads: parse workers, reader, the
+ * hand-over, encoding and decoding on this thread), the encoding's and the decoding's share, and the decoding's CPU
+ * nanoseconds per number.
  * Not a unit test; run by hand:
  *
  * <pre>
@@ -51,6 +53,7 @@ public final class IngestEncodeBench {
         for (int run = 0; run < runs; run++) {
             Map<String, Integer> ids = new HashMap<>();
             long[] encode = {0, 0};
+            long[] decode = {0, 0};
             boolean useForms = forms;
             CrossSectionSink sink = new CrossSectionSink() {
                 @Override
@@ -61,8 +64,14 @@ public final class IngestEncodeBench {
                 @Override
                 public void accept(CrossSection cs, SliceDecimals decimals) {
                     long t = threads.getCurrentThreadCpuTime();
-                    encode[1] += CrossSectionCodec.encode(cs, useForms ? decimals : null).length;
-                    encode[0] += threads.getCurrentThreadCpuTime() - t;
+                    byte[] payload = CrossSectionCodec.encode(cs, useForms ? decimals : null);
+                    long t1 = threads.getCurrentThreadCpuTime();
+                    CrossSection back = CrossSectionCodec.decode(cs.date(), payload);
+                    long t2 = threads.getCurrentThreadCpuTime();
+                    encode[1] += payload.length;
+                    encode[0] += t1 - t;
+                    decode[0] += t2 - t1;
+                    decode[1] += (long) back.size() * (2 + back.numbers().size());
                 }
 
                 @Override
@@ -77,8 +86,9 @@ public final class IngestEncodeBench {
                     code -> ids.computeIfAbsent(code, c -> ids.size() + 1), sink, progress -> { });
             long wall = System.nanoTime() - t0;
             long cpu = os.getProcessCpuTime() - cpu0;
-            System.out.printf("run %d: %,d rows (%d errors), wall %.2f s, CPU %.2f s, of it encoding %.2f s, %,d payload bytes%n",
-                    run + 1, result.rowsAccepted(), result.errorCount(), wall / 1e9, cpu / 1e9, encode[0] / 1e9, encode[1]);
+            System.out.printf("run %d: %,d rows (%d errors), wall %.2f s, CPU %.2f s, of it encoding %.2f s, decoding %.2f s"
+                            + " (%.2f ns a number), %,d payload bytes%n", run + 1, result.rowsAccepted(), result.errorCount(),
+                    wall / 1e9, cpu / 1e9, encode[0] / 1e9, decode[0] / 1e9, decode[0] / (double) Math.max(1, decode[1]), encode[1]);
         }
     }
 }

@@ -40,6 +40,28 @@ class CrossSectionCodecTest {
     }
 
     @Test
+    void aColumnWithExponentsOfBothSignsComesBackBitForBit() {
+        // whole numbers above 2^27 (2e9 is 20000000 at exponent -2; the significand must stay below 2^27) beside
+        // four-decimal values (exponent 4) in one decimal block, with missing values and a few that need all their bits
+        SplittableRandom random = new SplittableRandom(31);
+        int n = 3000;
+        double[] mixed = new double[n];
+        for (int i = 0; i < n; i++) {
+            mixed[i] = switch (i % 4) {
+                case 0 -> 1e9 * (1 + random.nextInt(90));
+                case 1 -> Double.parseDouble(String.format(Locale.ROOT, "%.4f", 100 * random.nextDouble()));
+                case 2 -> i % 40 == 2 ? Double.NaN : -1e12 * (1 + random.nextInt(90));
+                default -> i % 300 == 3 ? random.nextDouble() / 3 : Double.parseDouble(String.format(Locale.ROOT, "%.2f", random.nextGaussian()));
+            };
+        }
+        double[] plain = new double[n];
+        CrossSection cs = section(n, mixed, plain, Map.of(), Map.of());
+        byte[] payload = CrossSectionCodec.encode(cs);
+        assertSame(cs, CrossSectionCodec.decode(DATE, payload));
+        assertTrue(payload.length < n * (4 + 4 + 4) + 200, "the mixed column stays a decimal block: " + payload.length + " bytes");
+    }
+
+    @Test
     void anyBitsComeBack() {
         SplittableRandom random = new SplittableRandom(7);
         double[] special = {0.0, -0.0, Double.NaN, Double.longBitsToDouble(0x7ff8000000000001L), Double.longBitsToDouble(0xfff8000000000000L),
