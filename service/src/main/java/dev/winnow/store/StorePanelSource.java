@@ -4,6 +4,7 @@ import dev.winnow.construct.CrossSection;
 import dev.winnow.construct.PanelSource;
 
 import java.time.LocalDate;
+import java.util.ArrayDeque;
 import java.util.List;
 import java.util.concurrent.CancellationException;
 import java.util.concurrent.ExecutionException;
@@ -15,15 +16,19 @@ import java.util.function.Predicate;
  * dates in order, and re-reads at most its lag window. The current and the previous block are kept. A source made
  * with a column filter decodes only the extra columns the filter accepts (ids, returns and market caps always).
  *
- * <p>Read ahead: once the dates are read in order (a block right after the previous one), the next block is read and
- * decoded on a background thread while the caller works on the current one, so a build's reading overlaps its
- * construction. At most one block is read ahead, so memory stays three blocks whatever the panel's length. A block
- * asked for before its read ahead has started is read by the caller itself (the read ahead is cancelled), so a busy
- * pool never makes a reader wait for other readers' work; a failed read ahead fails the caller's read with its error.
- * The threads are the service's {@link PanelReadAhead}; sources are opened by {@link PanelStore#source}.
+ * <p>Read ahead: once the dates are read in order (a block right after the previous one), the next
+ * {@value #AHEAD} blocks are read and decoded on background threads while the caller works on the current one, so a
+ * build's reading overlaps its construction, and a read-ahead thread that starts late (both cores busy) costs the
+ * reader nothing as long as the block after it is still coming. At most {@value #AHEAD} blocks are read ahead, so
+ * memory stays {@value #AHEAD} + 2 blocks whatever the panel's length. A block asked for before its read ahead has
+ * started is read by the caller itself (the read ahead is cancelled), so a busy pool never makes a reader wait for
+ * other readers' work; a failed read ahead fails the caller's read with its error; a jump elsewhere cancels what was
+ * read ahead. The threads are the service's {@link PanelReadAhead}; sources are opened by {@link PanelStore#source}.
  */
 public final class StorePanelSource implements PanelSource {
     static final int BLOCK = 32;
+    /** Blocks read ahead of the current one. */
+    static final int AHEAD = 2;
 
     private final PanelStore panels;
     private final PanelReadAhead readAhead;
@@ -34,8 +39,11 @@ public final class StorePanelSource implements PanelSource {
     private List<CrossSection> block = List.of();
     private int previousStart = -1;
     private List<CrossSection> previous = List.of();
-    private int aheadStart = -1;
-    private FutureTask<List<CrossSection>> ahead;
+    /** The blocks being read ahead, in date order: the first starts right after the current block. */
+    private final ArrayDeque<Ahead> ahead = new ArrayDeque<>(AHEAD);
+
+    private record Ahead(int start, FutureTask<List<CrossSection>> task) {
+    }
 
     /** @param columns the extra columns to decode; the others read as absent (all missing) */
     StorePanelSource(PanelStore panels, PanelReadAhead readAhead, long panelId, Predicate<String> columns) {
@@ -61,25 +69,38 @@ public final class StorePanelSource implements PanelSource {
         }
         int start = index / BLOCK * BLOCK;
         boolean inOrder = blockStart >= 0 && start == blockStart + BLOCK;
-        List<CrossSection> loaded = start == aheadStart ? collectAhead() : read(start);
-        if (start != aheadStart) {
+        Ahead first = ahead.peekFirst();
+        List<CrossSection> loaded;
+        if (first != null && first.start() == start) {
+            ahead.removeFirst();
+            loaded = collect(first);
+        } else {
             dropAhead();
+            loaded = read(start);
         }
-        aheadStart = -1;
-        ahead = null;
         previousStart = blockStart;
         previous = block;
         blockStart = start;
         block = loaded;
-        int next = start + BLOCK;
-        if ((inOrder || start == 0) && next < dates.size()) {
-            FutureTask<List<CrossSection>> task = new FutureTask<>(() -> read(next));
-            if (readAhead.start(task)) {
-                aheadStart = next;
-                ahead = task;
-            }
+        if (inOrder || start == 0) {
+            readAheadFrom(start + BLOCK);
+        } else {
+            dropAhead();
         }
         return block.get(index - start);
+    }
+
+    /** Starts reading the blocks from {@code next} on that are not being read yet, up to {@value #AHEAD}. */
+    private void readAheadFrom(int next) {
+        int from = ahead.isEmpty() ? next : ahead.peekLast().start() + BLOCK;
+        for (int at = from; ahead.size() < AHEAD && at < dates.size(); at += BLOCK) {
+            int blockAt = at;
+            FutureTask<List<CrossSection>> task = new FutureTask<>(() -> read(blockAt));
+            if (!readAhead.start(task)) {
+                return;
+            }
+            ahead.addLast(new Ahead(blockAt, task));
+        }
     }
 
     private List<CrossSection> read(int start) {
@@ -87,20 +108,21 @@ public final class StorePanelSource implements PanelSource {
         return panels.slices(panelId, dates.subList(start, end), columns);
     }
 
-    /** The block read ahead: its result, or read here when the read ahead has not started yet. */
-    private List<CrossSection> collectAhead() {
-        FutureTask<List<CrossSection>> task = ahead;
+    /** A block read ahead: its result, or read here when its read ahead has not started yet. */
+    private List<CrossSection> collect(Ahead block) {
+        FutureTask<List<CrossSection>> task = block.task();
         if (task.cancel(false)) {
-            return read(aheadStart);
+            return read(block.start());
         }
         try {
             return task.get();
         } catch (CancellationException e) {
-            return read(aheadStart);
+            return read(block.start());
         } catch (InterruptedException e) {
             Thread.currentThread().interrupt();
             throw new IllegalStateException("interrupted while reading the panel", e);
         } catch (ExecutionException e) {
+            dropAhead();
             Throwable cause = e.getCause();
             if (cause instanceof RuntimeException r) {
                 throw r;
@@ -112,10 +134,11 @@ public final class StorePanelSource implements PanelSource {
         }
     }
 
-    /** Abandons a block read ahead that the reader did not go on to (it jumped elsewhere). */
+    /** Abandons the blocks read ahead that the reader did not go on to (it jumped elsewhere, or a read failed). */
     private void dropAhead() {
-        if (ahead != null) {
-            ahead.cancel(false);
+        for (Ahead a : ahead) {
+            a.task().cancel(false);
         }
+        ahead.clear();
     }
 }
