@@ -159,10 +159,12 @@ public record Config(int port, String bind, Path dataDir, String dbUrl, String a
     /**
      * H2 file store. WRITE_DELAY=0 writes every commit to the file at once (H2 otherwise flushes up to 500 ms later,
      * so a killed process could lose an acknowledged upload; {@link H2Url#durable} adds it to operators' URLs too);
-     * FILE_LOCK=FS lets a second process fail clearly.
+     * FILE_LOCK=FS lets a second process fail clearly; DB_CLOSE_ON_EXIT=FALSE leaves closing the store to the
+     * service's own shutdown (HTTP, then the worker, then the store), instead of H2's shutdown hook closing it under a
+     * worker still asking for jobs (a stack trace in the log at every Ctrl-C).
      */
     public static String defaultH2Url(Path dataDir) {
-        return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0";
+        return "jdbc:h2:file:" + dataDir.resolve("winnow").toAbsolutePath() + ";FILE_LOCK=FS;WRITE_DELAY=0;DB_CLOSE_ON_EXIT=FALSE";
     }
 
     public Path spoolDir() {
