@@ -62,6 +62,7 @@ public final class PanelUploadJob implements JobHandler {
         JobParams.PanelUpload params = JobParams.of(job, JobParams.PanelUpload.class);
         String panelName = params.panel();
         boolean revise = params.revise();
+        UploadMode mode = revise ? UploadMode.REVISE : UploadMode.APPEND;
         String file = params.file();
         long panelId = panels.createPanelIfAbsent(panelName);
 
@@ -88,8 +89,8 @@ public final class PanelUploadJob implements JobHandler {
             });
             LocalDate lastDate = panel.visible() && !revise ? panel.lastDate() : null;
             PanelUpload upload = new PanelUpload(spool.resolve(file), params.gzip(),
-                    revise ? UploadMode.REVISE : UploadMode.APPEND, lastDate, existing);
-            long uploadId = panels.beginUpload(panelId, job.id(), revise ? "revise" : "append");
+                    mode, lastDate, existing);
+            long uploadId = panels.beginUpload(panelId, job.id(), mode.wireName());
             PanelParseResult result;
             long parseStart = System.nanoTime();
             try (SliceStager stager = panels.stager(panelId, uploadId)) {
@@ -131,7 +132,7 @@ public final class PanelUploadJob implements JobHandler {
         List<JobReports.FactorUpdate> updated = updateFactors(panelId, revise ? earliest(dates) : null, revise);
         long factorsMillis = millis(System.nanoTime() - factorsStart);
         LoadingsUpdate loadingsUpdate = loadings.afterUpload(panelId, dates, revise);
-        JobReports.PanelUpload report = new JobReports.PanelUpload(panelName, revise ? UploadMode.REVISE : UploadMode.APPEND,
+        JobReports.PanelUpload report = new JobReports.PanelUpload(panelName, mode,
                 dates.size(), dates.isEmpty() ? null : dates.get(0), dates.isEmpty() ? null : dates.get(dates.size() - 1),
                 updated, loadingsUpdate,
                 new JobReports.UploadTimings(parseMillis, stagingMillis, encodeMillis, writeMillis, commitMillis, factorsMillis));

@@ -43,6 +43,7 @@ public final class SeriesUploadJob implements JobHandler {
         String name = params.factor();
         int version = params.version();
         boolean revise = params.revise();
+        UploadMode mode = revise ? UploadMode.REVISE : UploadMode.APPEND;
         String file = params.file();
         FactorVersionRecord v = factors.version(name, version).orElse(null);
         if (v == null) {
@@ -51,7 +52,7 @@ public final class SeriesUploadJob implements JobHandler {
         ReturnSeries stored = factors.series(v.factorId(), v.version(), FactorStore.Leg.SPREAD);
         LocalDate lastDate = revise || stored.size() == 0 ? null : stored.date(stored.size() - 1);
         SeriesParseResult result = parser.parse(spool.resolve(file), params.gzip(),
-                revise ? UploadMode.REVISE : UploadMode.APPEND, lastDate);
+                mode, lastDate);
         Counters counters = new Counters(0.5, result.rowsRead(), result.rowsAccepted(), result.rowsRejected());
         if (!result.accepted()) {
             spool.delete(file);
@@ -68,7 +69,7 @@ public final class SeriesUploadJob implements JobHandler {
         factors.saveExternal(v.factorId(), v.version(), rows, revise);
         progress.report(counters);
 
-        JobReports.SeriesUpload report = new JobReports.SeriesUpload(name, version, revise ? UploadMode.REVISE : UploadMode.APPEND,
+        JobReports.SeriesUpload report = new JobReports.SeriesUpload(name, version, mode,
                 rows.size(), rebuildDependents(name, series.size() == 0 ? null : series.date(0)));
         spool.delete(file);
         return JobOutcome.success(new Counters(1, counters.rowsRead(), counters.rowsAccepted(), counters.rowsRejected()), report);

@@ -82,10 +82,9 @@ public final class StorePanelSource implements PanelSource {
         previous = block;
         blockStart = start;
         block = loaded;
+        // a jump elsewhere has dropped what was read ahead above: the blocks read ahead always follow the current one
         if (inOrder || start == 0) {
             readAheadFrom(start + BLOCK);
-        } else {
-            dropAhead();
         }
         return block.get(index - start);
     }
