@@ -33,6 +33,8 @@ import io.javalin.Javalin;
 import io.javalin.config.JavalinConfig;
 import io.javalin.http.Context;
 import io.javalin.http.HttpResponseException;
+import org.eclipse.jetty.server.HttpConnectionFactory;
+import org.eclipse.jetty.server.ServerConnector;
 import org.slf4j.Logger;
 import org.slf4j.LoggerFactory;
 
@@ -42,6 +44,8 @@ import java.util.Map;
 public final class ApiServer {
     private static final Logger LOG = LoggerFactory.getLogger(ApiServer.class);
     static final String PROBLEM_JSON = "application/problem+json";
+    /** Jetty's read buffer per connection: how many bytes of a request body one socket read can take. */
+    private static final int INPUT_BUFFER_BYTES = 64 * 1024;
 
     /** What the handlers need, each wired once by the application. */
     public record Dependencies(TokenStore tokens, JobStore jobs, PanelStore panels, FactorStore factors, JobQueue queue,
@@ -91,8 +95,17 @@ public final class ApiServer {
                 d.informationCoefficients(), served);
 
         return Javalin.create(config -> {
-            config.jetty.host = host;
-            config.jetty.port = port;
+            // one connector of our own instead of Javalin's default, for its read buffer: Jetty reads a request body
+            // from the socket at most one input buffer (8 KiB by default) per system call, and a 1.4 GB panel upload
+            // then costs 175,000 reads; 64 KiB cuts them eightfold (the buffer is pooled, held while a read is pending)
+            config.jetty.addConnector((server, http) -> {
+                HttpConnectionFactory factory = new HttpConnectionFactory(http);
+                factory.setInputBufferSize(INPUT_BUFFER_BYTES);
+                ServerConnector connector = new ServerConnector(server, factory);
+                connector.setHost(host);
+                connector.setPort(port);
+                return connector;
+            });
             config.startup.showJavalinBanner = false;
             config.http.maxRequestSize = 1_000_000;
             config.http.prefer405over404 = true;

@@ -229,9 +229,18 @@ public final class UploadSpool {
             }
         }
 
+        /** Copies the body in whole buffers: a read returns what one socket read brought, far less than a buffer. */
         void drain() throws IOException {
-            for (int n; (n = body.read(buffer)) >= 0; ) {
-                store(buffer, 0, n);
+            int filled = 0;
+            for (int n; (n = body.read(buffer, filled, buffer.length - filled)) >= 0; ) {
+                filled += n;
+                if (filled == buffer.length) {
+                    store(buffer, 0, filled);
+                    filled = 0;
+                }
+            }
+            if (filled > 0) {
+                store(buffer, 0, filled);
             }
         }
 
