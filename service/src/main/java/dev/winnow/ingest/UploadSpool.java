@@ -4,11 +4,13 @@ import dev.winnow.store.Limits;
 import dev.winnow.store.SpoolStore;
 import dev.winnow.store.StorageFaults;
 
+import java.io.BufferedOutputStream;
 import java.io.FilterInputStream;
 import java.io.IOException;
 import java.io.InputStream;
+import java.io.OutputStream;
 import java.io.UncheckedIOException;
-import java.nio.ByteBuffer;
+import java.nio.channels.Channels;
 import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -119,6 +121,7 @@ public final class UploadSpool {
             }
             copy.drain();
             try {
+                copy.flush();
                 channel.force(true);
             } catch (IOException e) {
                 throw unwritable(e);
@@ -183,17 +186,20 @@ public final class UploadSpool {
                 + "Send the upload again once the operator has fixed the storage.");
     }
 
-    /** The copy loop: reads the body, writes it to the file, counts raw and (for gzip) decoded bytes. */
+    /**
+     * The copy loop: reads the body, writes it to the file, counts raw and (for gzip) decoded bytes. The file is written
+     * through a buffer of {@value #BUFFER} bytes, since a read of the body returns what one socket read brought.
+     */
     private final class Copy {
         private final InputStream body;
-        private final FileChannel channel;
+        private final OutputStream out;
         private final byte[] buffer = new byte[BUFFER];
         private long written;
         private long nextSpaceCheck = SPACE_CHECK_EVERY;
 
         Copy(InputStream body, FileChannel channel) {
             this.body = body;
-            this.channel = channel;
+            this.out = new BufferedOutputStream(Channels.newOutputStream(channel), BUFFER);
         }
 
         /** Reads the body through a gzip decoder that only counts; a body that is not valid gzip is left to the job. */
@@ -229,19 +235,15 @@ public final class UploadSpool {
             }
         }
 
-        /** Copies the body in whole buffers: a read returns what one socket read brought, far less than a buffer. */
         void drain() throws IOException {
-            int filled = 0;
-            for (int n; (n = body.read(buffer, filled, buffer.length - filled)) >= 0; ) {
-                filled += n;
-                if (filled == buffer.length) {
-                    store(buffer, 0, filled);
-                    filled = 0;
-                }
+            for (int n; (n = body.read(buffer)) >= 0; ) {
+                store(buffer, 0, n);
             }
-            if (filled > 0) {
-                store(buffer, 0, filled);
-            }
+        }
+
+        /** Writes what the buffer still holds to the file (before it is forced to disk). */
+        void flush() throws IOException {
+            out.flush();
         }
 
         private void store(byte[] b, int off, int n) {
@@ -254,10 +256,7 @@ public final class UploadSpool {
                 checkFreeSpace(0);
             }
             try {
-                ByteBuffer buf = ByteBuffer.wrap(b, off, n);
-                while (buf.hasRemaining()) {
-                    channel.write(buf);
-                }
+                out.write(b, off, n);
             } catch (IOException e) {
                 throw unwritable(e);
             }
@@ -297,7 +296,7 @@ public final class UploadSpool {
         }
         Files.createDirectories(copy.getParent());
         Path partial = copy.resolveSibling(copy.getFileName() + ".partial");
-        try (java.io.OutputStream out = new java.io.BufferedOutputStream(Files.newOutputStream(partial), BUFFER)) {
+        try (OutputStream out = new BufferedOutputStream(Files.newOutputStream(partial), BUFFER)) {
             if (!store.copyTo(reference.substring(STORED.length()), out)) {
                 throw new IOException("the spooled upload body is missing from the store");
             }

@@ -263,10 +263,12 @@ final class DecimalDoubles {
 
     /**
      * Decodes the block at the reader's position into {@code out[0..n)}, leaving the reader after it. A value at
-     * exponent e is d / 10^e for e &gt;= 0 and d x 10^-e for e &lt; 0, one correctly rounded operation either way. A
-     * block whose exponents are all e &gt;= 0 (the usual case) divides only; a block with both kinds computes
-     * d x m / q with (m, q) = (1, 10^e) or (10^-e, 1), the same single rounding (multiplying and dividing by one are
-     * exact), so the loop has no branch on the exponent's sign. Each word is one big-endian int load.
+     * exponent e is d / 10^e for e &gt;= 0 and d x 10^-e for e &lt; 0, one correctly rounded operation either way
+     * (IEEE 754-2019, clause 5.1, cited from memory: an operation is computed exactly, then rounded once; d and
+     * 10^|e| are exact doubles). A block whose exponents are all e &gt;= 0 (the usual case) divides only; a block
+     * with both kinds computes d x m / q with (m, q) = (1, 10^e) or (10^-e, 1), the same single rounding (multiplying
+     * and dividing by one are exact), so the loop has no branch on the exponent's sign. Each word is one big-endian
+     * int load.
      *
      * @throws IllegalStateException when the block is cut short or its mode is unknown
      */
