@@ -4,7 +4,6 @@ import dev.winnow.stats.ReturnSeries;
 import java.io.EOFException;
 import java.io.IOException;
 import java.io.InputStream;
-import java.nio.file.Files;
 import java.nio.file.Path;
 import java.time.LocalDate;
 import java.util.HashMap;
@@ -31,7 +30,7 @@ public final class ExternalSeriesParser {
         }
         ErrorCollector errors = new ErrorCollector();
         Rows rows = new Rows(mode, lastDate, errors);
-        try (InputStream in = Gzip.decompressedIf(gzip, Files.newInputStream(file))) {
+        try (InputStream in = Gzip.decompressedIf(gzip, DirectFile.open(file))) {
             rows.read(new CsvTokenizer(in));
         } catch (CsvTokenizer.RecordTooLongException tooLong) {
             rows.reject(tooLong.line(), null, Messages.recordTooLong(CsvTokenizer.MAX_RECORD_BYTES));

@@ -40,7 +40,7 @@ final class ProgressMeter {
 
     /** Opens the file for a scan that covers the fractions [start, start + share). */
     InputStream open(Path file, boolean gzip, double start, double share) throws IOException {
-        scan = new CountingInputStream(Files.newInputStream(file));
+        scan = new CountingInputStream(DirectFile.open(file));
         scanStart = start;
         scanShare = share;
         return Gzip.decompressedIf(gzip, scan);

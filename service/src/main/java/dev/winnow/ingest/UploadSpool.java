@@ -4,17 +4,13 @@ import dev.winnow.store.Limits;
 import dev.winnow.store.SpoolStore;
 import dev.winnow.store.StorageFaults;
 
-import java.io.BufferedOutputStream;
 import java.io.FilterInputStream;
 import java.io.IOException;
 import java.io.InputStream;
 import java.io.OutputStream;
 import java.io.UncheckedIOException;
-import java.nio.channels.Channels;
-import java.nio.channels.FileChannel;
 import java.nio.file.Files;
 import java.nio.file.Path;
-import java.nio.file.StandardOpenOption;
 import java.time.Duration;
 import java.time.OffsetDateTime;
 import java.time.ZoneOffset;
@@ -23,7 +19,8 @@ import java.util.zip.GZIPInputStream;
 
 /**
  * Upload bodies are written to disk and forced to stable storage before the job is queued and 202 is answered,
- * so an acknowledged upload survives a crash.
+ * so an acknowledged upload survives a crash. They are written past the page cache where the file system allows it
+ * ({@link DirectFile}), since each is read back once, in order.
  *
  * <p>Every upload is bounded ({@link Limits}): it is refused before a byte is written while the data directory's free
  * space is below {@code minFreeBytes} or would fall below it with the declared length, and stopped as soon as the
@@ -114,21 +111,20 @@ public final class UploadSpool {
         checkFreeSpace(Math.max(0, declaredLength));
         Path file = dir.resolve(UUID.randomUUID() + ".upload");
         boolean kept = false;
-        try (FileChannel channel = openNew(file)) {
-            Copy copy = new Copy(body, channel);
+        try (DirectFile.Output out = openNew(file)) {
+            Copy copy = new Copy(body, out);
             if (gzip) {
                 copy.countDecoded();
             }
             copy.drain();
             try {
-                copy.flush();
-                channel.force(true);
+                out.finish();
             } catch (IOException e) {
                 throw unwritable(e);
             }
             if (store != null) {
                 String id = UUID.randomUUID().toString();
-                try (InputStream local = Files.newInputStream(file)) {
+                try (InputStream local = DirectFile.open(file)) {
                     store.write(id, local);
                 }
                 return new Spooled(STORED + id, copy.written); // the local file goes in the finally block
@@ -142,9 +138,9 @@ public final class UploadSpool {
         }
     }
 
-    private FileChannel openNew(Path file) {
+    private DirectFile.Output openNew(Path file) {
         try {
-            return FileChannel.open(file, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE);
+            return DirectFile.create(file);
         } catch (IOException e) {
             throw unwritable(e);
         }
@@ -188,7 +184,7 @@ public final class UploadSpool {
 
     /**
      * The copy loop: reads the body, writes it to the file, counts raw and (for gzip) decoded bytes. The file is written
-     * through a buffer of {@value #BUFFER} bytes, since a read of the body returns what one socket read brought.
+     * in whole blocks of {@link DirectFile}'s buffer, however few bytes one socket read brought.
      */
     private final class Copy {
         private final InputStream body;
@@ -197,9 +193,9 @@ public final class UploadSpool {
         private long written;
         private long nextSpaceCheck = SPACE_CHECK_EVERY;
 
-        Copy(InputStream body, FileChannel channel) {
+        Copy(InputStream body, OutputStream out) {
             this.body = body;
-            this.out = new BufferedOutputStream(Channels.newOutputStream(channel), BUFFER);
+            this.out = out;
         }
 
         /** Reads the body through a gzip decoder that only counts; a body that is not valid gzip is left to the job. */
@@ -239,11 +235,6 @@ public final class UploadSpool {
             for (int n; (n = body.read(buffer)) >= 0; ) {
                 store(buffer, 0, n);
             }
-        }
-
-        /** Writes what the buffer still holds to the file (before it is forced to disk). */
-        void flush() throws IOException {
-            out.flush();
         }
 
         private void store(byte[] b, int off, int n) {
@@ -296,10 +287,11 @@ public final class UploadSpool {
         }
         Files.createDirectories(copy.getParent());
         Path partial = copy.resolveSibling(copy.getFileName() + ".partial");
-        try (OutputStream out = new BufferedOutputStream(Files.newOutputStream(partial), BUFFER)) {
+        try (DirectFile.Output out = DirectFile.create(partial)) {
             if (!store.copyTo(reference.substring(STORED.length()), out)) {
                 throw new IOException("the spooled upload body is missing from the store");
             }
+            out.finish();
         } catch (IOException | RuntimeException e) {
             Files.deleteIfExists(partial);
             throw e;

@@ -44,10 +44,11 @@ class UploadSpoolTest {
     @Test
     void spoolsTheBodyByteForByteWhateverTheReadSizes() throws IOException {
         UploadSpool spool = new UploadSpool(dataDir, new Limits(1L << 30, 0));
-        // sizes around the spool's 64 KiB buffer: empty, one byte, one short of, exactly and one past whole buffers
-        for (int size : new int[] {0, 1, 65_535, 65_536, 65_537, 3 * 65_536, 1_000_003}) {
+        // sizes around a file system block (4 KiB) and the spool file's 1 MiB buffer: empty, one byte, one short of,
+        // exactly and one past whole blocks and buffers
+        for (int size : new int[] {0, 1, 4_095, 4_096, 4_097, 65_536, (1 << 20) - 1, 1 << 20, (1 << 20) + 1, 2_500_003}) {
             for (int maxRead : new int[] {1, 8_192, 70_000}) {
-                if (maxRead == 1 && size > 70_000) {
+                if (maxRead == 1 && size > 70_000 || maxRead == 8_192 && size > 1 << 20) {
                     continue;
                 }
                 byte[] body = body(size);
