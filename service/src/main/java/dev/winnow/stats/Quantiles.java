@@ -73,11 +73,7 @@ public final class Quantiles {
             Arrays.fill(out, Double.NaN);
             return out;
         }
-        for (double v : values) {
-            if (!Double.isFinite(v)) {
-                throw new IllegalArgumentException("quantile sample must hold finite values only; drop missing values first");
-            }
-        }
+        requireFinite(values);
         int[] ranks = new int[2 * probabilities.length];
         int k = 0;
         for (double p : probabilities) {
@@ -85,15 +81,10 @@ public final class Quantiles {
             ranks[k++] = Math.min(j, n - 1);
             ranks[k++] = Math.min(j + 1, n - 1);
         }
-        // ascending and distinct, by hand: a stream here made this method costly to compile (a build's first dates
-        // waited for several compilations of it)
-        Arrays.sort(ranks, 0, k);
-        int distinct = 0;
-        for (int i = 0; i < k; i++) {
-            if (distinct == 0 || ranks[i] != ranks[distinct - 1]) {
-                ranks[distinct++] = ranks[i];
-            }
-        }
+        // ascending and distinct, by hand: a stream here, and later Arrays.sort, made this method costly to compile
+        // (C2 inlined them and compiled it four times during a build's first dates, 0.3 s of compiler time); the
+        // loops over the sample are in methods of their own for the same reason
+        int distinct = sortDistinct(ranks, k);
         select(values, 0, n - 1, ranks, 0, distinct - 1);
         for (int q = 0; q < probabilities.length; q++) {
             double h = (n - 1) * probabilities[q];
@@ -165,6 +156,34 @@ public final class Quantiles {
             j += v < pivot ? 1 : 0;
         }
         return j;
+    }
+
+    private static void requireFinite(double[] values) {
+        for (double v : values) {
+            if (!Double.isFinite(v)) {
+                throw new IllegalArgumentException("quantile sample must hold finite values only; drop missing values first");
+            }
+        }
+    }
+
+    /** Sorts a[0..n) (a few ranks) and moves its distinct values to the front; returns how many there are. */
+    private static int sortDistinct(int[] a, int n) {
+        for (int i = 1; i < n; i++) {
+            int v = a[i];
+            int j = i - 1;
+            while (j >= 0 && a[j] > v) {
+                a[j + 1] = a[j];
+                j--;
+            }
+            a[j + 1] = v;
+        }
+        int distinct = 0;
+        for (int i = 0; i < n; i++) {
+            if (distinct == 0 || a[i] != a[distinct - 1]) {
+                a[distinct++] = a[i];
+            }
+        }
+        return distinct;
     }
 
     private static void insertionSort(double[] a, int lo, int hi) {

@@ -80,7 +80,7 @@ class QuantilesTest {
         // the selection puts the same order statistics in place as a sort; reference as above: Commons Math 3.6.1 R_7
         Random random = new Random(1961);
         double[][] probabilitySets = {{0.2, 0.4, 0.6, 0.8}, {0.5}, {0.3, 0.7}, {0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9},
-            {0.0, 1.0}, {1.0 / 3, 2.0 / 3}};
+            {0.0, 1.0}, {1.0 / 3, 2.0 / 3}, {0.9, 0.1, 0.5, 0.5, 1.0, 0.0, 0.25}}; // the last in no order, one twice
         for (int trial = 0; trial < 600; trial++) {
             int n = trial < 30 ? trial : 1 + random.nextInt(trial % 5 == 0 ? 4000 : 300);
             double[] x = new double[n];
