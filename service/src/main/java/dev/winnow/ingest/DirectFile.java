@@ -110,33 +110,44 @@ public final class DirectFile {
         int block;
         ByteBuffer buffer;
 
-        private Transfer(Path file, FileChannel channel, int block) {
+        private Transfer(Path file, FileChannel channel, int block, ByteBuffer buffer) {
             this.file = file;
             this.channel = channel;
             this.block = block;
-            ByteBuffer pooled = POOL.poll();
-            this.buffer = pooled != null ? pooled.clear()
-                    : ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+            this.buffer = buffer;
         }
 
         /** Opens the file O_DIRECT when {@code block} is positive and the file system takes it, else through the cache. */
         static Transfer open(Path file, int block, OpenOption... options) throws IOException {
-            if (block > 0) {
-                OpenOption[] direct = java.util.Arrays.copyOf(options, options.length + 1);
-                direct[options.length] = ExtendedOpenOption.DIRECT;
-                try {
-                    return new Transfer(file, FileChannel.open(file, direct), block);
-                } catch (java.nio.file.FileAlreadyExistsException exists) {
-                    throw exists;
-                } catch (IOException | UnsupportedOperationException refused) {
-                    // the platform or the file system refuses O_DIRECT; Linux may have created the file before it
-                    // refused, and a file to be created new was not there before this call
-                    if (java.util.Arrays.asList(options).contains(StandardOpenOption.CREATE_NEW)) {
-                        Files.deleteIfExists(file);
-                    }
-                }
+            ByteBuffer pooled = POOL.poll();
+            ByteBuffer buffer = pooled != null ? pooled.clear()
+                    : ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+            try {
+                FileChannel direct = block > 0 ? openDirect(file, options) : null;
+                return direct != null ? new Transfer(file, direct, block, buffer)
+                        : new Transfer(file, FileChannel.open(file, options), 0, buffer);
+            } catch (IOException | RuntimeException e) {
+                POOL.offer(buffer);
+                throw e;
             }
-            return new Transfer(file, FileChannel.open(file, options), 0);
+        }
+
+        /** The file opened O_DIRECT, or null when the platform or the file system refuses it. */
+        private static FileChannel openDirect(Path file, OpenOption... options) throws IOException {
+            OpenOption[] withDirect = java.util.Arrays.copyOf(options, options.length + 1);
+            withDirect[options.length] = ExtendedOpenOption.DIRECT;
+            try {
+                return FileChannel.open(file, withDirect);
+            } catch (java.nio.file.FileAlreadyExistsException exists) {
+                throw exists;
+            } catch (IOException | UnsupportedOperationException refused) {
+                // Linux may have created the file before it refused O_DIRECT, and a file to be created new was not
+                // there before this call
+                if (java.util.Arrays.asList(options).contains(StandardOpenOption.CREATE_NEW)) {
+                    Files.deleteIfExists(file);
+                }
+                return null;
+            }
         }
 
         /** Goes on through the page cache from {@code position}: the file system refused an O_DIRECT transfer. */
