@@ -62,8 +62,13 @@ public final class DirectFile {
 
     /** As {@link #create(Path)}; {@code tryDirect} false goes through the page cache from the start (for tests). */
     static Output create(Path file, boolean tryDirect) throws IOException {
+        return create(file, tryDirect, null);
+    }
+
+    /** As {@link #create(Path, boolean)}, moving bytes through {@code buffer} (not pooled) when it is not null (for tests). */
+    static Output create(Path file, boolean tryDirect, ByteBuffer buffer) throws IOException {
         int block = tryDirect ? directBlock(file.toAbsolutePath().getParent()) : 0;
-        return new Output(Transfer.open(file, block, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE));
+        return new Output(Transfer.open(file, block, buffer, StandardOpenOption.CREATE_NEW, StandardOpenOption.WRITE));
     }
 
     /**
@@ -77,7 +82,12 @@ public final class DirectFile {
 
     /** As {@link #open(Path)}; {@code tryDirect} false goes through the page cache from the start (for tests). */
     static Input open(Path file, boolean tryDirect) throws IOException {
-        return new Input(Transfer.open(file, tryDirect ? directBlock(file) : 0, StandardOpenOption.READ));
+        return open(file, tryDirect, null);
+    }
+
+    /** As {@link #open(Path, boolean)}, moving bytes through {@code buffer} (not pooled) when it is not null (for tests). */
+    static Input open(Path file, boolean tryDirect, ByteBuffer buffer) throws IOException {
+        return new Input(Transfer.open(file, tryDirect ? directBlock(file) : 0, buffer, StandardOpenOption.READ));
     }
 
     /** The block size O_DIRECT transfers of files at {@code path} align to, or 0 when it cannot be used. */
@@ -109,25 +119,34 @@ public final class DirectFile {
         FileChannel channel;
         int block;
         ByteBuffer buffer;
+        /** Whether the buffer goes back to the pool at {@link #close}. */
+        private final boolean pooled;
 
-        private Transfer(Path file, FileChannel channel, int block, ByteBuffer buffer) {
+        private Transfer(Path file, FileChannel channel, int block, ByteBuffer buffer, boolean pooled) {
             this.file = file;
             this.channel = channel;
             this.block = block;
             this.buffer = buffer;
+            this.pooled = pooled;
         }
 
-        /** Opens the file O_DIRECT when {@code block} is positive and the file system takes it, else through the cache. */
-        static Transfer open(Path file, int block, OpenOption... options) throws IOException {
-            ByteBuffer pooled = POOL.poll();
-            ByteBuffer buffer = pooled != null ? pooled.clear()
-                    : ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+        /**
+         * Opens the file O_DIRECT when {@code block} is positive and the file system takes it, else through the cache;
+         * bytes go through {@code given} when it is not null, else through a pooled aligned buffer.
+         */
+        static Transfer open(Path file, int block, ByteBuffer given, OpenOption... options) throws IOException {
+            ByteBuffer buffer = given != null ? given.clear() : POOL.poll();
+            if (buffer == null) {
+                buffer = ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+            }
             try {
                 FileChannel direct = block > 0 ? openDirect(file, options) : null;
-                return direct != null ? new Transfer(file, direct, block, buffer)
-                        : new Transfer(file, FileChannel.open(file, options), 0, buffer);
+                return direct != null ? new Transfer(file, direct, block, buffer.clear(), given == null)
+                        : new Transfer(file, FileChannel.open(file, options), 0, buffer.clear(), given == null);
             } catch (IOException | RuntimeException e) {
-                POOL.offer(buffer);
+                if (given == null) {
+                    POOL.offer(buffer);
+                }
                 throw e;
             }
         }
@@ -159,10 +178,10 @@ public final class DirectFile {
         }
 
         void close() throws IOException {
-            if (buffer != null) {
+            if (buffer != null && pooled) {
                 POOL.offer(buffer);
-                buffer = null;
             }
+            buffer = null;
             channel.close();
         }
     }

@@ -6,6 +6,7 @@ import org.junit.jupiter.api.io.TempDir;
 import java.io.ByteArrayOutputStream;
 import java.io.IOException;
 import java.io.InputStream;
+import java.nio.ByteBuffer;
 import java.nio.file.FileAlreadyExistsException;
 import java.nio.file.Files;
 import java.nio.file.Path;
@@ -13,6 +14,7 @@ import java.util.Random;
 
 import static org.junit.jupiter.api.Assertions.assertArrayEquals;
 import static org.junit.jupiter.api.Assertions.assertEquals;
+import static org.junit.jupiter.api.Assertions.assertFalse;
 import static org.junit.jupiter.api.Assertions.assertThrows;
 import static org.junit.jupiter.api.Assertions.assertTrue;
 import static org.junit.jupiter.api.Assumptions.assumeTrue;
@@ -114,6 +116,38 @@ class DirectFileTest {
             int n = in.read(first, 0, first.length);
             assertEquals(BUFFER, n, "one whole buffer at a time");
             assertTrue(in.direct(), "whole-buffer reads stay O_DIRECT");
+        }
+    }
+
+    @Test
+    void aTransferTheFileSystemRefusesGoesOnThroughTheCache() throws IOException {
+        Path file = dir.resolve("refused");
+        // a buffer 512 bytes off a block boundary: the kernel refuses O_DIRECT transfers from or into it (EINVAL)
+        ByteBuffer misaligned = ByteBuffer.allocateDirect(BUFFER + 2 * 65_536).alignedSlice(65_536)
+                .position(512).limit(512 + BUFFER).slice();
+        byte[] body = bytes(2 * BUFFER + 77);
+        try (DirectFile.Output out = DirectFile.create(file, true, misaligned)) {
+            assumeTrue(out.direct(), "the temporary directory's file system refuses O_DIRECT at open");
+            out.write(body, 0, body.length);
+            out.finish();
+            assertFalse(out.direct(), "the refused transfer switched the stream to the page cache");
+        }
+        assertArrayEquals(body, Files.readAllBytes(file), "every byte, those before and after the switch");
+        try (DirectFile.Input in = DirectFile.open(file, true, misaligned)) {
+            assertTrue(in.direct());
+            ByteArrayOutputStream back = new ByteArrayOutputStream();
+            byte[] piece = new byte[100_000];
+            for (int n; (n = in.read(piece, 0, piece.length)) >= 0; ) {
+                back.write(piece, 0, n);
+            }
+            assertFalse(in.direct(), "the refused read switched the stream to the page cache");
+            assertArrayEquals(body, back.toByteArray());
+        }
+        // the foreign buffer was not pooled: the next stream is direct again
+        try (DirectFile.Output out = DirectFile.create(dir.resolve("after"), true)) {
+            out.write(body, 0, BUFFER);
+            out.finish();
+            assertTrue(out.direct());
         }
     }
 
