@@ -16,6 +16,7 @@ import java.nio.file.StandardOpenOption;
 import java.util.Objects;
 import java.util.concurrent.ArrayBlockingQueue;
 import java.util.concurrent.BlockingQueue;
+import java.util.concurrent.atomic.AtomicInteger;
 
 /**
  * Writes and reads spooled upload bodies past the operating system's page cache (Linux {@code O_DIRECT}, open(2)),
@@ -37,8 +38,10 @@ import java.util.concurrent.BlockingQueue;
  * an ordinary channel from where it stood; the bytes are the same either way.
  *
  * <p>A transfer on an interrupted thread fails with {@link InterruptedIOException} (the channel is closed by then).
- * Not thread-safe. The aligned buffers (direct memory, freed only by the collector) are reused: at most
- * {@value #POOLED} are kept between streams.
+ * Not thread-safe. The aligned buffers are direct memory, freed only by the collector: at most {@value #POOLED} are
+ * kept between streams for the next ones, and at most {@value #MAX_ALIGNED} exist at once; a stream opened while all
+ * of them are in use (that many uploads at once) goes through the page cache with a {@value #HEAP_BUFFER}-byte buffer
+ * on the heap, as the spool did before.
  */
 public final class DirectFile {
     /** Bytes moved per transfer: a multiple of every supported block size. */
@@ -47,6 +50,11 @@ public final class DirectFile {
     private static final int MAX_BLOCK = 1 << 16;
     private static final int POOLED = 4;
     private static final BlockingQueue<ByteBuffer> POOL = new ArrayBlockingQueue<>(POOLED);
+    /** Aligned buffers that may exist at once, pooled or in use. */
+    static final int MAX_ALIGNED = 32;
+    private static final AtomicInteger ALIGNED = new AtomicInteger();
+    /** The buffer of a stream that found every aligned buffer in use. */
+    private static final int HEAP_BUFFER = 1 << 16;
 
     private DirectFile() {
     }
@@ -119,7 +127,7 @@ public final class DirectFile {
         FileChannel channel;
         int block;
         ByteBuffer buffer;
-        /** Whether the buffer goes back to the pool at {@link #close}. */
+        /** Whether the buffer is one of the aligned ones, given back at {@link #close}. */
         private final boolean pooled;
 
         private Transfer(Path file, FileChannel channel, int block, ByteBuffer buffer, boolean pooled) {
@@ -132,22 +140,50 @@ public final class DirectFile {
 
         /**
          * Opens the file O_DIRECT when {@code block} is positive and the file system takes it, else through the cache;
-         * bytes go through {@code given} when it is not null, else through a pooled aligned buffer.
+         * bytes go through {@code given} when it is not null, else through an aligned buffer, else (all of them in use)
+         * through a heap buffer and the cache.
          */
         static Transfer open(Path file, int block, ByteBuffer given, OpenOption... options) throws IOException {
-            ByteBuffer buffer = given != null ? given.clear() : POOL.poll();
+            ByteBuffer buffer = given != null ? given.clear() : takeAligned();
+            boolean aligned = given == null && buffer != null;
             if (buffer == null) {
-                buffer = ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+                buffer = ByteBuffer.allocate(HEAP_BUFFER);
+                block = 0;
             }
             try {
                 FileChannel direct = block > 0 ? openDirect(file, options) : null;
-                return direct != null ? new Transfer(file, direct, block, buffer.clear(), given == null)
-                        : new Transfer(file, FileChannel.open(file, options), 0, buffer.clear(), given == null);
+                return direct != null ? new Transfer(file, direct, block, buffer, aligned)
+                        : new Transfer(file, FileChannel.open(file, options), 0, buffer, aligned);
             } catch (IOException | RuntimeException e) {
-                if (given == null) {
-                    POOL.offer(buffer);
+                if (aligned) {
+                    giveBack(buffer);
                 }
                 throw e;
+            }
+        }
+
+        /** A pooled or new aligned buffer, or null when {@value #MAX_ALIGNED} exist or direct memory is short. */
+        private static ByteBuffer takeAligned() {
+            ByteBuffer pooled = POOL.poll();
+            if (pooled != null) {
+                return pooled.clear();
+            }
+            if (ALIGNED.incrementAndGet() > MAX_ALIGNED) {
+                ALIGNED.decrementAndGet();
+                return null;
+            }
+            try {
+                return ByteBuffer.allocateDirect(BUFFER + MAX_BLOCK).alignedSlice(MAX_BLOCK).limit(BUFFER).slice();
+            } catch (OutOfMemoryError directMemoryShort) {
+                // allocateDirect's failure when -XX:MaxDirectMemorySize is reached; the heap is untouched
+                ALIGNED.decrementAndGet();
+                return null;
+            }
+        }
+
+        private static void giveBack(ByteBuffer buffer) {
+            if (!POOL.offer(buffer)) {
+                ALIGNED.decrementAndGet(); // left to the collector
             }
         }
 
@@ -179,7 +215,7 @@ public final class DirectFile {
 
         void close() throws IOException {
             if (buffer != null && pooled) {
-                POOL.offer(buffer);
+                giveBack(buffer);
             }
             buffer = null;
             channel.close();

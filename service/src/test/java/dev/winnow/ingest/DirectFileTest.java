@@ -152,6 +152,45 @@ class DirectFileTest {
     }
 
     @Test
+    void streamsBeyondTheAlignedBuffersGoThroughTheCache() throws IOException {
+        byte[] body = bytes(BUFFER + BLOCK + 9);
+        java.util.List<DirectFile.Output> open = new java.util.ArrayList<>();
+        try {
+            DirectFile.Output first = DirectFile.create(dir.resolve("many-0"), true);
+            open.add(first);
+            assumeTrue(first.direct(), "the temporary directory's file system refuses O_DIRECT at open");
+            for (int i = 1; i <= DirectFile.MAX_ALIGNED; i++) {
+                open.add(DirectFile.create(dir.resolve("many-" + i), true));
+            }
+            long direct = open.stream().filter(DirectFile.Output::direct).count();
+            assertEquals(DirectFile.MAX_ALIGNED, direct, "as many direct streams at once as there are aligned buffers");
+            for (DirectFile.Output out : open) {
+                out.write(body, 0, body.length);
+                out.finish();
+            }
+        } finally {
+            for (DirectFile.Output out : open) {
+                out.close();
+            }
+        }
+        for (int i = 0; i <= DirectFile.MAX_ALIGNED; i++) {
+            assertArrayEquals(body, Files.readAllBytes(dir.resolve("many-" + i)), "stream " + i + ", direct or not");
+        }
+        // the buffers of closed streams are pooled or forgotten, never still counted: as many direct streams again
+        open.clear();
+        try {
+            for (int i = 0; i < DirectFile.MAX_ALIGNED; i++) {
+                open.add(DirectFile.create(dir.resolve("again-" + i), true));
+            }
+            assertTrue(open.stream().allMatch(DirectFile.Output::direct), "the aligned buffers came back when closed");
+        } finally {
+            for (DirectFile.Output out : open) {
+                out.close();
+            }
+        }
+    }
+
+    @Test
     void aTransferOnAnInterruptedThreadIsAnInterruption() throws IOException {
         Path file = dir.resolve("interrupted");
         try (DirectFile.Output out = DirectFile.create(file)) {
