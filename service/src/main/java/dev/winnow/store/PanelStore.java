@@ -276,8 +276,8 @@ public final class PanelStore {
      * {@code transferTo} hands its array to the sink in one write: when that write is the whole array and all the
      * stream held ({@code available()}, exact for that class), the array is returned as it is. A build reads some
      * 300 MB of payloads this way; their copies were about a sixth of what it allocated. The array may be the store's
-     * own, so it is only ever read (decoded), never written. Any other stream (PostgreSQL's, or a part of an array)
-     * is read into an array of its own.
+     * own, so it is only ever read (decoded), never written. PostgreSQL's driver hands over the same class, over an
+     * array it has just made; any other stream, or one over a part of an array, is read into an array of its own.
      *
      * @throws java.sql.SQLException when the column cannot be read
      */
